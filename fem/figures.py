@@ -1,0 +1,22 @@
+"""All figures of a run, by kind: one call from the output writer."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+__all__ = ["write_figures"]
+
+
+def write_figures(res: Any, folder: Path) -> list[Path]:
+    """Write the PNG figures of a finished check into `folder`; return their paths."""
+    if res.case.kind == "beam":
+        from .plots import write_beam_figures
+
+        paths = write_beam_figures(res.case, res.run.finest, res.result.cuts, folder)
+    else:
+        from .section_run import write_section_figures
+
+        paths = write_section_figures(res, folder)
+    res.figures = paths
+    return paths

@@ -1,0 +1,226 @@
+"""Meshing a member with gmsh and handing the mesh to scikit-fem with its names intact.
+
+The mesh is read straight from the gmsh API (not through meshio, which drops boundary tags
+of quadratic meshes): corner vertices are numbered first so scikit-fem keeps our numbering,
+each physical curve becomes a named set of facet indices, each physical point a named node.
+Curved members (holes, fillets) get an isoparametric `MeshTri2`; straight ones a `MeshTri1`
+carrying P2 elements (same dofs, affine map, exact point location).
+"""
+
+from __future__ import annotations
+
+import math
+import time
+from dataclasses import dataclass, field
+
+import gmsh
+import numpy as np
+from skfem import MeshTri1, MeshTri2
+
+from .case import Case
+from .errors import SolveError
+from .geometry import build_member, gmsh_session, name_boundaries
+from .plane import Patch, domain_polygon, patches, reentrant_corners
+
+__all__ = ["MemberMesh", "mesh_member", "estimate_dofs", "level_size"]
+
+
+@dataclass
+class MemberMesh:
+    """A meshed member: the scikit-fem mesh plus everything named on it."""
+
+    mesh: MeshTri1 | MeshTri2
+    finder_mesh: MeshTri1            # straight-sided twin for point location
+    order: int
+    size: float
+    boundaries: dict[str, np.ndarray]  # name -> facet indices
+    points: dict[str, int]             # name -> vertex index (point patches)
+    thickness: np.ndarray              # per element
+    supports: list[Patch]
+    loads: list[Patch]
+    seconds: float = 0.0
+    extra: dict = field(default_factory=dict)
+
+    @property
+    def curved(self) -> bool:
+        return isinstance(self.mesh, MeshTri2)
+
+
+def level_size(case: Case, level: int) -> float:
+    """Element size at convergence level `level` (0 = coarsest): halving each time."""
+    return case.mesh.size / 2.0 ** level
+
+
+def estimate_dofs(case: Case, size: float) -> int:
+    """Rough dof count for a P1/P2 mesh of `size` (about 2.3 triangles per size^2)."""
+    area = domain_polygon(case.geometry).area  # type: ignore[arg-type]
+    tris = 2.3 * area / size**2
+    nodes = tris / 2 * (4 if case.mesh.order == 2 else 1)
+    return int(2 * nodes * 1.15)
+
+
+def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch]) -> None:
+    """Distance/threshold refinement at patch ends, holes, fillets and corners."""
+    g = case.geometry
+    fields = []
+    scale = size / case.mesh.size
+    f = gmsh.model.mesh.field
+
+    def threshold(points: list[tuple[float, float]] | None, curves: list[int] | None,
+                  fine: float, dmin: float, dmax: float) -> None:
+        d = f.add("Distance")
+        if points:
+            tags = [gmsh.model.occ.addPoint(x, y, 0) for x, y in points]
+            gmsh.model.occ.synchronize()
+            f.setNumbers(d, "PointsList", tags)
+        if curves:
+            f.setNumbers(d, "CurvesList", curves)
+            f.setNumber(d, "Sampling", 200)
+        t = f.add("Threshold")
+        f.setNumber(t, "InField", d)
+        f.setNumber(t, "SizeMin", min(fine, size))
+        f.setNumber(t, "SizeMax", size)
+        f.setNumber(t, "DistMin", dmin)
+        f.setNumber(t, "DistMax", dmax)
+        fields.append(t)
+
+    depth = _depth(case)
+    ends = [p for patch in sup + lds for p in patch.ends]
+    if ends:
+        threshold(ends, None, size / 4, 0.0, 0.25 * depth)
+    corners = [c.at for c in reentrant_corners(domain_polygon(g))]
+    if corners:
+        threshold(corners, None, size / 6, 0.0, 0.25 * depth)
+    for k, h in enumerate(g.holes):
+        curves = [int(t) for t in gmsh.model.getEntitiesForPhysicalGroup(
+            1, _phys_tag(1, f"hole-{k}"))]
+        # 24 elements round the hole at level 0, doubling with each level
+        threshold(None, curves, min(size / 2, 2 * math.pi * h.radius / 24 * scale),
+                  0.0, 1.5 * h.radius)
+    fillet_curves = [t for _, t in gmsh.model.getEntities(1)
+                     if gmsh.model.getType(1, t) == "Circle" and not _is_hole(g, t)]
+    if fillet_curves:
+        rmin = min(c.fillet for c in g.cutouts if c.fillet > 0)
+        # 6 elements along a quarter-circle fillet at level 0, doubling with each level
+        threshold(None, fillet_curves, min(size / 2, 0.5 * math.pi * rmin / 6 * scale),
+                  0.0, 2.0 * rmin)
+    for r in case.mesh.refine:
+        threshold([r.at], None, r.size * scale, r.radius, 2 * r.radius)
+    if fields:
+        m = f.add("Min")
+        f.setNumbers(m, "FieldsList", fields)
+        f.setAsBackgroundMesh(m)
+    for opt in ("MeshSizeExtendFromBoundary", "MeshSizeFromPoints", "MeshSizeFromCurvature"):
+        gmsh.option.setNumber(f"Mesh.{opt}", 0)
+    gmsh.option.setNumber("Mesh.MeshSizeMax", size)
+
+
+def _is_hole(g, tag: int) -> bool:
+    xyz = gmsh.model.getValue(1, tag, [gmsh.model.getParametrizationBounds(1, tag)[0][0]])
+    return any(abs(math.dist(xyz[:2], h.center) - h.radius) < 1e-6 * h.radius for h in g.holes)
+
+
+def _phys_tag(dim: int, name: str) -> int:
+    for d, t in gmsh.model.getPhysicalGroups(dim):
+        if gmsh.model.getPhysicalName(d, t) == name:
+            return t
+    raise KeyError(name)
+
+
+def _depth(case: Case) -> float:
+    x0, y0, x1, y1 = domain_polygon(case.geometry).bounds  # type: ignore[arg-type]
+    return y1 - y0
+
+
+def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
+    """Mesh the member at element size `size` (default: mesh.size) and hand it over."""
+    size = case.mesh.size if size is None else size
+    g = case.geometry
+    estimate = estimate_dofs(case, size)
+    if estimate > case.mesh.max_dofs:
+        from .errors import CaseError
+
+        raise CaseError(case.file, "mesh.max_dofs",
+                        f"the model would have about {estimate:,} dofs at size {size:g}, "
+                        f"above the limit {case.mesh.max_dofs:,}; raise mesh.size or max_dofs")
+    dom = domain_polygon(g)  # type: ignore[arg-type]
+    sup, lds = patches(case, dom)
+    t0 = time.perf_counter()
+    x0, y0, x1, y1 = dom.bounds
+    tol = 1e-7 * max(x1 - x0, y1 - y0)
+    with gmsh_session():
+        surf_names = build_member(g, sup, lds)  # type: ignore[arg-type]
+        groups = name_boundaries(g, sup, lds, tol)  # type: ignore[arg-type]
+        _size_fields(case, size, sup, lds)
+        gmsh.option.setNumber("Mesh.Algorithm", 6)
+        try:
+            gmsh.model.mesh.generate(2)
+            if case.mesh.order == 2:
+                gmsh.model.mesh.setOrder(2)
+        except Exception as exc:  # gmsh raises plain Exception
+            raise SolveError(f"gmsh could not mesh the member at size {size:g}: {exc}") from None
+        mm = _hand_over(case, size, surf_names, groups)
+    mm.supports, mm.loads = sup, lds
+    mm.seconds = time.perf_counter() - t0
+    return mm
+
+
+def _hand_over(case: Case, size: float, surf_names: dict[int, str],
+               groups: dict[str, list[int]]) -> MemberMesh:
+    tags, coords, _ = gmsh.model.mesh.getNodes()
+    xy = coords.reshape(-1, 3)[:, :2]
+    index = np.full(int(tags.max()) + 1, -1, dtype=np.int64)
+    index[tags.astype(np.int64)] = np.arange(len(tags))
+    etype = 9 if case.mesh.order == 2 else 2
+    nper = 6 if case.mesh.order == 2 else 3
+    conn, elem_thk = [], []
+    thick = {f"zone-{k}": z.thickness for k, z in enumerate(case.geometry.zones)}
+    for s, name in surf_names.items():
+        types, _, nodes = gmsh.model.mesh.getElements(2, s)
+        for ty, nd in zip(types, nodes, strict=True):
+            if ty != etype:
+                raise SolveError(f"gmsh produced element type {ty}; expected triangles")
+            c = index[nd.astype(np.int64)].reshape(-1, nper)
+            conn.append(c)
+            elem_thk.append(np.full(len(c), thick.get(name, case.material.thickness)))
+    t_all = np.vstack(conn).T
+    # number corner vertices first, then mid-edge nodes, both in first-use order
+    corner_ids = np.unique(t_all[:3])
+    new = np.full(len(xy), -1, dtype=np.int64)
+    new[corner_ids] = np.arange(len(corner_ids))
+    if nper == 6:
+        mids = np.setdiff1d(np.unique(t_all[3:]), corner_ids)
+        new[mids] = len(corner_ids) + np.arange(len(mids))
+    used = new >= 0
+    p = np.empty((2, used.sum()))
+    p[:, new[used]] = xy[used].T
+    t = np.ascontiguousarray(new[t_all])
+    nv = len(corner_ids)
+    finder = MeshTri1(np.ascontiguousarray(p[:, :nv]), np.ascontiguousarray(t[:3]))
+    curved = case.geometry.holes or any(c.fillet > 0 for c in case.geometry.cutouts)
+    if nper == 6 and curved:
+        mesh = MeshTri2(p, t)
+    else:
+        mesh = finder
+    facet_of = {(int(a), int(b)): i for i, (a, b) in enumerate(np.sort(mesh.facets, axis=0).T)}
+    boundaries, points = {}, {}
+    for name, curve_tags in groups.items():
+        if curve_tags and curve_tags[0] < 0:
+            ntags, _, _ = gmsh.model.mesh.getNodes(0, -curve_tags[0])
+            points[name] = int(new[index[int(ntags[0])]])
+            continue
+        facets = []
+        for ct in curve_tags:
+            types, _, nodes = gmsh.model.mesh.getElements(1, ct)
+            for ty, nd in zip(types, nodes, strict=True):
+                k = 3 if ty == 8 else 2
+                e = new[index[nd.astype(np.int64)]].reshape(-1, k)[:, :2]
+                facets += [facet_of[(int(min(a, b)), int(max(a, b)))] for a, b in e]
+        boundaries[name] = np.array(sorted(set(facets)), dtype=np.int64)
+    for name, f in boundaries.items():
+        if len(f) == 0 and not name.startswith("hole"):
+            raise SolveError(f"the mesh has no boundary facets for {name}; "
+                             "the patch may be shorter than the element size")
+    return MemberMesh(mesh=mesh, finder_mesh=finder, order=case.mesh.order, size=size,
+                      boundaries=boundaries, points=points,
+                      thickness=np.concatenate(elem_thk), supports=[], loads=[])

@@ -1,0 +1,346 @@
+"""The member in the plane, outside gmsh: outline, patches, cuts and features.
+
+shapely holds the member as a polygon (arcs as fine polylines) so that placements can be
+resolved and checked before meshing, cuts can be intersected with the material, and
+features (holes, fillets, re-entrant corners, patch ends) can be listed for refinement,
+findings and excluded zones. The gmsh model (`fem.geometry`) is built from the same data
+with true arcs.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+from shapely.geometry import LineString, Point, Polygon, box
+from shapely.ops import unary_union
+
+from .case import BeamGeometry, Case, Cutout, Placement
+from .errors import CaseError
+
+__all__ = [
+    "Patch", "Corner", "Strip", "outline_polygon", "domain_polygon", "cutout_polygon",
+    "resolve_patch", "patches", "cut_strips", "reentrant_corners", "validate_geometry",
+    "bounding_box", "ARC_SEGMENTS",
+]
+
+ARC_SEGMENTS = 64  # polyline segments per quarter circle in the shapely model
+
+
+@dataclass(frozen=True)
+class Patch:
+    """A resolved support or load stretch.
+
+    `segments` are straight stretches of the boundary (empty for a point or a hole);
+    `point` is set for a point patch; `hole` for a pin bearing on a hole.
+    """
+
+    name: str
+    segments: tuple[tuple[tuple[float, float], tuple[float, float]], ...] = ()
+    point: tuple[float, float] | None = None
+    hole: int | None = None
+
+    @property
+    def length(self) -> float:
+        return sum(math.dist(a, b) for a, b in self.segments)
+
+    @property
+    def centroid(self) -> tuple[float, float]:
+        if self.point is not None:
+            return self.point
+        L = self.length
+        cx = sum(0.5 * (a[0] + b[0]) * math.dist(a, b) for a, b in self.segments) / L
+        cy = sum(0.5 * (a[1] + b[1]) * math.dist(a, b) for a, b in self.segments) / L
+        return (cx, cy)
+
+    @property
+    def ends(self) -> list[tuple[float, float]]:
+        if self.point is not None:
+            return [self.point]
+        return [p for seg in self.segments for p in seg]
+
+    def is_vertical(self) -> bool:
+        return bool(self.segments) and all(abs(a[0] - b[0]) < 1e-9 * (1 + abs(a[0]))
+                                           for a, b in self.segments)
+
+    def is_horizontal(self) -> bool:
+        return bool(self.segments) and all(abs(a[1] - b[1]) < 1e-9 * (1 + abs(a[1]))
+                                           for a, b in self.segments)
+
+
+@dataclass(frozen=True)
+class Corner:
+    """A sharp re-entrant corner of the domain: location and interior angle (degrees)."""
+
+    at: tuple[float, float]
+    angle: float
+
+
+@dataclass(frozen=True)
+class Strip:
+    """One material stretch of a cut: y0 < y1 with out-of-plane thickness t."""
+
+    y0: float
+    y1: float
+    t: float
+
+
+def outline_polygon(g: BeamGeometry) -> Polygon:
+    if g.shape == "rectangle":
+        return box(0.0, 0.0, g.length, g.depth)
+    return shapely.geometry.polygon.orient(Polygon(g.points), 1.0)
+
+
+def cutout_polygon(c: Cutout, outline: Polygon) -> Polygon:
+    """The cut-out, with its corners that fall inside the outline rounded by `fillet`."""
+    (x0, y0), (w, h) = c.corner, c.size
+    corners = [(x0, y0), (x0 + w, y0), (x0 + w, y0 + h), (x0, y0 + h)]
+    if c.fillet <= 0:
+        return Polygon(corners)
+    r = c.fillet
+    inward = [(1, 1), (-1, 1), (-1, -1), (1, -1)]
+    pts: list[tuple[float, float]] = []
+    start_angle = [180.0, 270.0, 0.0, 90.0]
+    for (cx, cy), (sx, sy), a0 in zip(corners, inward, start_angle, strict=True):
+        if outline.buffer(-1e-9 * (w + h)).contains(Point(cx, cy)):
+            ox, oy = cx + sx * r, cy + sy * r
+            for k in range(ARC_SEGMENTS + 1):
+                a = math.radians(a0 + 90.0 * k / ARC_SEGMENTS)
+                pts.append((ox + r * math.cos(a), oy + r * math.sin(a)))
+        else:
+            pts.append((cx, cy))
+    return Polygon(pts)
+
+
+def domain_polygon(g: BeamGeometry) -> Polygon:
+    outline = outline_polygon(g)
+    removed = [Point(h.center).buffer(h.radius, quad_segs=ARC_SEGMENTS) for h in g.holes]
+    removed += [cutout_polygon(c, outline) for c in g.cutouts]
+    dom = outline.difference(unary_union(removed)) if removed else outline
+    return dom
+
+
+def bounding_box(g: BeamGeometry) -> tuple[float, float, float, float]:
+    return tuple(outline_polygon(g).bounds)  # type: ignore[return-value]
+
+
+def _tol(dom: Polygon) -> float:
+    x0, y0, x1, y1 = dom.bounds
+    return 1e-7 * max(x1 - x0, y1 - y0)
+
+
+def _edge_line(edge: str, g: BeamGeometry) -> LineString:
+    L, h = g.length, g.depth
+    return {"left": LineString([(0, 0), (0, h)]), "right": LineString([(L, 0), (L, h)]),
+            "bottom": LineString([(0, 0), (L, 0)]), "top": LineString([(0, h), (L, h)])}[edge]
+
+
+def _straight_pieces(geom) -> list[tuple[tuple[float, float], tuple[float, float]]]:
+    lines = shapely.get_parts(shapely.line_merge(geom)) if not geom.is_empty else []
+    out = []
+    for ln in lines:
+        if ln.geom_type != "LineString" or ln.length == 0:
+            continue
+        c = list(ln.coords)
+        out.append(((c[0][0], c[0][1]), (c[-1][0], c[-1][1])))
+    return out
+
+
+def _boundary_edges(dom: Polygon) -> list[tuple[np.ndarray, np.ndarray]]:
+    edges = []
+    for ring in [dom.exterior, *dom.interiors]:
+        c = np.asarray(ring.coords)
+        edges += [(c[i], c[i + 1]) for i in range(len(c) - 1)]
+    return edges
+
+
+def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygon) -> Patch:
+    """Turn a placement into boundary stretches of the domain, or refuse it."""
+    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    tol = _tol(dom)
+    file = case.file
+    if where.hole is not None:
+        if where.hole >= len(g.holes):
+            raise CaseError(file, f"{key}.hole", f"hole {where.hole} does not exist; the case "
+                                                 f"has {len(g.holes)} hole(s), numbered from 0")
+        return Patch(name=name, hole=where.hole)
+    if where.edge is not None:
+        if g.shape != "rectangle":
+            raise CaseError(file, f"{key}.edge", "edges are named for rectangles only; use "
+                                                 "from/to or at + width on a polygon")
+        on = dom.boundary.intersection(_edge_line(where.edge, g).buffer(tol))
+        segs = _straight_pieces(on)
+        segs = [s for s in segs if math.dist(*s) > 10 * tol]
+        if not segs:
+            raise CaseError(file, f"{key}.edge", f"nothing of the {where.edge} edge is left "
+                                                 "after holes and cut-outs")
+        return Patch(name=name, segments=tuple(_snap(s, where.edge, g) for s in segs))
+    if where.start is not None:
+        a, b = where.start, where.end
+        for label, p in (("from", a), ("to", b)):
+            if dom.boundary.distance(Point(p)) > 1e3 * tol:
+                raise CaseError(file, f"{key}.{label}", f"{list(p)} is not on the outline")
+        seg = LineString([a, b])
+        covered = dom.boundary.intersection(seg.buffer(1e3 * tol)).length
+        if abs(covered - seg.length) > 1e-4 * seg.length or not _on_one_edge(dom, a, b, tol):
+            raise CaseError(file, key, f"the stretch {list(a)} to {list(b)} does not lie on a "
+                                       "single straight stretch of the outline")
+        return Patch(name=name, segments=((a, b),))
+    # at + width
+    p = np.asarray(where.at, float)
+    if dom.boundary.distance(Point(p)) > 1e3 * tol:
+        raise CaseError(file, f"{key}.at", f"{list(where.at)} is not on the outline")
+    if where.width == 0:
+        return Patch(name=name, point=(float(p[0]), float(p[1])))
+    for e0, e1 in _boundary_edges(dom):
+        d = e1 - e0
+        L = float(np.hypot(*d))
+        s = float(np.dot(p - e0, d) / L)
+        off = abs(_cross(d, p - e0) / L)
+        if off < 1e3 * tol and -1e3 * tol <= s <= L + 1e3 * tol:
+            s0, s1 = s - where.width / 2, s + where.width / 2
+            if s0 < -1e-6 * L or s1 > L * (1 + 1e-6):
+                raise CaseError(file, f"{key}.width",
+                                f"{where.width:g} runs past the end of the straight stretch "
+                                f"at {list(where.at)} (it is {L:g} long there)")
+            a = tuple(float(v) for v in e0 + d * max(s0, 0.0) / L)
+            b = tuple(float(v) for v in e0 + d * min(s1, L) / L)
+            return Patch(name=name, segments=((a, b),))  # type: ignore[arg-type]
+    raise CaseError(file, f"{key}.at", f"{list(where.at)} lies on a curved part of the outline;"
+                                       " a patch needs a straight stretch")
+
+
+def _snap(seg, edge: str, g: BeamGeometry):
+    (x0, y0), (x1, y1) = seg
+    if edge in ("left", "right"):
+        x = 0.0 if edge == "left" else g.length
+        lo, hi = sorted((y0, y1))
+        return ((x, lo), (x, hi))
+    y = 0.0 if edge == "bottom" else g.depth
+    lo, hi = sorted((x0, x1))
+    return ((lo, y), (hi, y))
+
+
+def _on_one_edge(dom: Polygon, a, b, tol: float) -> bool:
+    a, b = np.asarray(a, float), np.asarray(b, float)
+    for e0, e1 in _boundary_edges(dom):
+        d = e1 - e0
+        L = float(np.hypot(*d))
+        ok = True
+        for p in (a, b):
+            s = float(np.dot(p - e0, d) / L)
+            off = abs(_cross(d, p - e0) / L)
+            ok &= off < 1e3 * tol and -1e3 * tol <= s <= L + 1e3 * tol
+        if ok:
+            return True
+    return False
+
+
+def patches(case: Case, dom: Polygon | None = None) -> tuple[list[Patch], list[Patch]]:
+    """Resolved (supports, loads), named 'support-i' and 'load-j'."""
+    dom = dom if dom is not None else domain_polygon(case.geometry)  # type: ignore[arg-type]
+    sup = [resolve_patch(s.where, f"support-{i}", s.key or f"supports.{i}", case, dom)
+           for i, s in enumerate(case.supports)]
+    lds = [resolve_patch(ld.where, f"load-{j}", ld.key or f"loads.{j}", case, dom)
+           for j, ld in enumerate(case.loads)]
+    return sup, lds
+
+
+def cut_strips(g: BeamGeometry, x: float, thickness: float,
+               dom: Polygon | None = None) -> list[Strip]:
+    """Material of the vertical line at `x`, bottom to top, split where the thickness changes."""
+    dom = dom if dom is not None else domain_polygon(g)
+    x0, y0, x1, y1 = dom.bounds
+    line = LineString([(x, y0 - 1.0), (x, y1 + 1.0)])
+    pieces = shapely.get_parts(dom.intersection(line))
+    spans = sorted((min(p.coords[0][1], p.coords[-1][1]), max(p.coords[0][1], p.coords[-1][1]))
+                   for p in pieces if p.geom_type == "LineString" and p.length > 0)
+    strips: list[Strip] = []
+    for lo, hi in spans:
+        cuts = {lo, hi}
+        for z in g.zones:
+            if z.corner[0] <= x <= z.corner[0] + z.size[0]:
+                cuts |= {v for v in (z.corner[1], z.corner[1] + z.size[1]) if lo < v < hi}
+        ys = sorted(cuts)
+        for a, b in zip(ys[:-1], ys[1:], strict=True):
+            strips.append(Strip(a, b, _thickness_at(g, x, 0.5 * (a + b), thickness)))
+    return strips
+
+
+def _thickness_at(g: BeamGeometry, x: float, y: float, base: float) -> float:
+    t = base
+    for z in g.zones:
+        if (z.corner[0] <= x <= z.corner[0] + z.size[0]
+                and z.corner[1] <= y <= z.corner[1] + z.size[1]):
+            t = z.thickness
+    return t
+
+
+def reentrant_corners(dom: Polygon) -> list[Corner]:
+    """Vertices of the domain whose interior angle exceeds 180 degrees (sharp only)."""
+    out = []
+    rings = [shapely.geometry.polygon.orient(dom, 1.0).exterior,
+             *shapely.geometry.polygon.orient(dom, 1.0).interiors]
+    for ring in rings:
+        c = np.asarray(ring.coords)[:-1]
+        n = len(c)
+        for i in range(n):
+            a, p, b = c[i - 1], c[i], c[(i + 1) % n]
+            u, v = p - a, b - p
+            turn = math.degrees(math.atan2(_cross(u, v), float(np.dot(u, v))))
+            interior = 180.0 - turn  # material lies to the left on every oriented ring
+            # arcs are polylines with tiny turns; only real corners count
+            if interior > 185.0:
+                out.append(Corner(at=(float(p[0]), float(p[1])), angle=interior))
+    return out
+
+
+def _cross(a: np.ndarray, b: np.ndarray) -> float:
+    return float(a[0] * b[1] - a[1] * b[0])
+
+
+def validate_geometry(case: Case) -> None:
+    """Geometric checks that need the outline; raise CaseError naming the key."""
+    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    f = case.file
+    outline = outline_polygon(g)
+    if not outline.is_valid or outline.area <= 0:
+        raise CaseError(f, "geometry.points", "the outline crosses itself or has no area")
+    size = max(outline.bounds[2] - outline.bounds[0], outline.bounds[3] - outline.bounds[1])
+    for i, h in enumerate(g.holes):
+        disk = Point(h.center).buffer(h.radius, quad_segs=ARC_SEGMENTS)
+        if not outline.buffer(-1e-6 * size).contains(disk):
+            raise CaseError(f, f"geometry.holes.{i}", "the hole must lie inside the outline, "
+                                                      "clear of its edge")
+        for j, other in enumerate(g.holes[:i]):
+            if math.dist(h.center, other.center) <= h.radius + other.radius:
+                raise CaseError(f, f"geometry.holes.{i}", f"overlaps hole {j}")
+    for i, c in enumerate(g.cutouts):
+        if not cutout_polygon(c, outline).intersects(outline):
+            raise CaseError(f, f"geometry.cutouts.{i}", "lies wholly outside the outline")
+    for i, z in enumerate(g.zones):
+        if not box(z.corner[0], z.corner[1], z.corner[0] + z.size[0],
+                   z.corner[1] + z.size[1]).intersects(outline):
+            raise CaseError(f, f"geometry.zones.{i}", "lies wholly outside the outline")
+    dom = domain_polygon(g)
+    if dom.geom_type != "Polygon" or dom.is_empty:
+        raise CaseError(f, "geometry.cutouts", "the cut-outs split the member into pieces "
+                                               "or remove all of it")
+    patches(case, dom)
+    if case.mesh.size > size:
+        raise CaseError(f, "mesh.size", f"{case.mesh.size:g} is larger than the member "
+                                        f"({size:g}); give a size a fraction of the depth")
+    for i, r in enumerate(case.mesh.refine):
+        if r.size > case.mesh.size:
+            raise CaseError(f, f"mesh.refine.{i}.size", f"{r.size:g} is coarser than mesh.size "
+                                                        f"{case.mesh.size:g}")
+    if case.check.cuts:
+        x0, _, x1, _ = dom.bounds
+        for i, x in enumerate(case.check.cuts):
+            if not x0 < x < x1:
+                raise CaseError(f, f"check.cuts.{i}", f"{x:g} is outside the member "
+                                                      f"({x0:g} < x < {x1:g})")
+            if not cut_strips(g, x, 1.0, dom):
+                raise CaseError(f, f"check.cuts.{i}", f"no material at x = {x:g}")

@@ -1,0 +1,144 @@
+"""Typed, path-aware access to a parsed TOML table.
+
+Every key read goes through `Table.take`, which checks type and range and raises a
+`CaseError` naming the file and the dotted key path. `Table.close` refuses any key that was
+not read, so a typo never passes silently.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Sequence
+from typing import Any
+
+from .errors import CaseError
+
+__all__ = ["Table", "REQUIRED"]
+
+REQUIRED = object()
+
+
+def _is_number(v: Any) -> bool:
+    return isinstance(v, int | float) and not isinstance(v, bool)
+
+
+class Table:
+    """A TOML table being read, with its file name and key path for messages."""
+
+    def __init__(self, data: Any, file: str, path: str = "") -> None:
+        if not isinstance(data, dict):
+            raise CaseError(file, path or "(top level)", f"must be a table, got {_kind(data)}")
+        self.data = data
+        self.file = file
+        self.path = path
+        self.used: set[str] = set()
+
+    def key(self, name: str) -> str:
+        return f"{self.path}.{name}" if self.path else name
+
+    def error(self, name: str, message: str) -> CaseError:
+        return CaseError(self.file, self.key(name), message)
+
+    def has(self, name: str) -> bool:
+        return name in self.data
+
+    def raw(self, name: str, default: Any = REQUIRED) -> Any:
+        self.used.add(name)
+        if name not in self.data:
+            if default is REQUIRED:
+                raise self.error(name, "is required but missing")
+            return default
+        return self.data[name]
+
+    def number(self, name: str, default: Any = REQUIRED, *, low: float | None = None,
+               high: float | None = None, low_open: bool = False, high_open: bool = False,
+               integer: bool = False) -> Any:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        if integer:
+            if not isinstance(v, int) or isinstance(v, bool):
+                raise self.error(name, f"must be a whole number, got {_show(v)}")
+        elif not _is_number(v):
+            raise self.error(name, f"must be a number, got {_show(v)}")
+        if not math.isfinite(v):
+            raise self.error(name, f"must be finite, got {v}")
+        _check_range(self, name, v, low, high, low_open, high_open)
+        return float(v) if not integer else int(v)
+
+    def text(self, name: str, default: Any = REQUIRED, *,
+             allowed: Sequence[str] | None = None, pattern: Callable[[str], bool] | None = None,
+             describe: str = "") -> Any:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        if not isinstance(v, str):
+            raise self.error(name, f"must be a string, got {_show(v)}")
+        if allowed is not None and v not in allowed:
+            raise self.error(name, f"{v!r} is not allowed; use one of: {', '.join(allowed)}")
+        if pattern is not None and not pattern(v):
+            raise self.error(name, f"{v!r} is not allowed; {describe}")
+        return v
+
+    def point(self, name: str, default: Any = REQUIRED) -> Any:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        return as_point(v, self.file, self.key(name))
+
+    def numbers(self, name: str, default: Any = REQUIRED, *, low: float | None = None,
+                high: float | None = None) -> Any:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        if not isinstance(v, list) or not all(_is_number(x) and math.isfinite(x) for x in v):
+            raise self.error(name, f"must be a list of numbers, got {_show(v)}")
+        for x in v:
+            _check_range(self, name, x, low, high, False, False)
+        return tuple(float(x) for x in v)
+
+    def table(self, name: str, default: Any = REQUIRED) -> Table | None:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        return Table(v, self.file, self.key(name))
+
+    def tables(self, name: str) -> list[Table]:
+        v = self.raw(name, [])
+        if not isinstance(v, list):
+            raise self.error(name, f"must be an array of tables ([[{self.key(name)}]]), "
+                                   f"got {_kind(v)}")
+        return [Table(x, self.file, f"{self.key(name)}.{i}") for i, x in enumerate(v)]
+
+    def close(self) -> None:
+        extra = sorted(set(self.data) - self.used)
+        if extra:
+            known = ", ".join(sorted(self.used)) or "none"
+            raise self.error(extra[0], f"unknown key (known here: {known})")
+
+
+def as_point(v: Any, file: str, key: str) -> tuple[float, float]:
+    if (not isinstance(v, list) or len(v) != 2
+            or not all(_is_number(x) and math.isfinite(x) for x in v)):
+        raise CaseError(file, key, f"must be a point [x, y] of two numbers, got {_show(v)}")
+    return (float(v[0]), float(v[1]))
+
+
+def _check_range(t: Table, name: str, v: float, low: float | None, high: float | None,
+                 low_open: bool, high_open: bool) -> None:
+    if low is not None and (v < low or (low_open and v == low)):
+        rel = ">" if low_open else ">="
+        raise t.error(name, f"must be {rel} {low:g}, got {v:g}")
+    if high is not None and (v > high or (high_open and v == high)):
+        rel = "<" if high_open else "<="
+        raise t.error(name, f"must be {rel} {high:g}, got {v:g}")
+
+
+def _kind(v: Any) -> str:
+    return {dict: "a table", list: "an array", str: "a string", bool: "a boolean"}.get(
+        type(v), type(v).__name__)
+
+
+def _show(v: Any) -> str:
+    s = repr(v)
+    return s if len(s) <= 40 else s[:37] + "..."

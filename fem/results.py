@@ -1,0 +1,193 @@
+"""Result dataclasses and the one place they become results.json (written atomically).
+
+The field names are the contract's (CASE-FORMAT.md); extras are additions the contract
+allows. `write_json` writes to a temporary file in the same folder and renames it over
+the old one, so a crash never leaves half a file and a complete earlier result survives
+until a complete new one replaces it.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import tempfile
+from dataclasses import asdict, dataclass, field, is_dataclass
+from pathlib import Path
+from typing import Any
+
+import numpy as np
+
+__all__ = [
+    "MeshInfo", "Equilibrium", "Profile", "CutResult", "Peak", "ConvergenceResult",
+    "Finding", "Timings", "Result", "write_json", "to_jsonable", "CAUTION", "atomic_write",
+]
+
+CAUTION = ("This is a verification aid. Design remains subject to the governing code and the "
+           "judgement of a licensed engineer.")
+
+
+@dataclass
+class MeshInfo:
+    nodes: int
+    elements: int
+    dofs: int
+    size: float
+    order: int
+    curved: bool = False
+
+
+@dataclass
+class Equilibrium:
+    applied: list[float]
+    reactions: list[float]
+    relative_error: float
+
+
+@dataclass
+class Profile:
+    y: list[float]
+    tau_fe: list[float]
+    tau_hand: list[float]
+    sigma_x_fe: list[float] = field(default_factory=list)
+    sigma_x_hand: list[float] = field(default_factory=list)
+
+
+@dataclass
+class CutResult:
+    x: float
+    V_fe: float
+    V_hand: float
+    M_fe: float
+    M_hand: float
+    tau_max_fe: float
+    y_at_tau_max_fe: float
+    tau_max_hand: float
+    tau_avg_hand: float
+    ratio: float
+    sigma_x_max_fe: float
+    sigma_x_max_hand: float
+    profile: Profile
+    N_fe: float = 0.0
+    N_hand: float = 0.0
+    A: float = 0.0
+    I: float = 0.0  # noqa: E741  (second moment of area, the trade name)
+    centroid_y: float = 0.0
+    tau_formula_hand: float = 0.0
+    von_mises_max_fe: float = 0.0
+    von_mises_max_hand: float = 0.0
+
+
+@dataclass
+class Peak:
+    tau_max: float
+    tau_at: list[float]
+    von_mises_max: float
+    von_mises_at: list[float]
+    principal_max: float
+    principal_at: list[float]
+
+
+@dataclass
+class ConvergenceResult:
+    sizes: list[float]
+    tau_max: list[float]
+    observed_order: float | None
+    extrapolated: float | None
+    gci: float | None
+    singular: bool
+    converged: bool = True
+    quantity: str = ""
+    dofs: list[int] = field(default_factory=list)
+    quantities: dict[str, dict[str, Any]] = field(default_factory=dict)
+
+
+@dataclass
+class Finding:
+    kind: str
+    at: list[float]
+    ratio: float | None
+    message: str
+
+
+@dataclass
+class Timings:
+    mesh: float = 0.0
+    assemble: float = 0.0
+    solve: float = 0.0
+    post: float = 0.0
+
+
+@dataclass
+class Result:
+    case: str
+    kind: str
+    title: str
+    units: dict[str, str]
+    mesh: MeshInfo | None
+    verdict: str
+    findings: list[Finding]
+    timings: Timings
+    convergence: ConvergenceResult | None
+    cuts: list[CutResult] | None = None
+    peak: Peak | None = None
+    equilibrium: Equilibrium | None = None
+    section: dict[str, Any] | None = None
+    hand_method: str = "shear-formula"
+    tolerance: float = 0.05
+    hand_calculation: list[str] = field(default_factory=list)
+    caution: str = CAUTION
+    schema: int = 1
+
+    def to_dict(self) -> dict[str, Any]:
+        d = to_jsonable(self)
+        if self.kind == "section":
+            d.pop("cuts", None)
+            d.pop("peak", None)
+            d.pop("equilibrium", None)
+        else:
+            d.pop("section", None)
+        return d
+
+
+def to_jsonable(obj: Any) -> Any:
+    """Dataclasses, numpy values and non-finite floats into plain JSON values."""
+    if is_dataclass(obj) and not isinstance(obj, type):
+        return {k: to_jsonable(v) for k, v in asdict(obj).items()}
+    if isinstance(obj, dict):
+        return {str(k): to_jsonable(v) for k, v in obj.items()}
+    if isinstance(obj, list | tuple):
+        return [to_jsonable(v) for v in obj]
+    if isinstance(obj, np.ndarray):
+        return [to_jsonable(v) for v in obj.tolist()]
+    if isinstance(obj, np.bool_ | bool):
+        return bool(obj)
+    if isinstance(obj, np.integer):
+        return int(obj)
+    if isinstance(obj, float | np.floating):
+        v = float(obj)
+        return v if math.isfinite(v) else None
+    return obj
+
+
+def atomic_write(path: Path, data: bytes) -> None:
+    """Write bytes to `path` via a temporary file in the same folder and a rename."""
+    path = Path(path)
+    path.parent.mkdir(parents=True, exist_ok=True)
+    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            fh.write(data)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+
+
+def write_json(result: Result | dict[str, Any], path: Path) -> Path:
+    d = result.to_dict() if isinstance(result, Result) else to_jsonable(result)
+    atomic_write(Path(path), json.dumps(d, indent=1, allow_nan=False).encode("utf-8"))
+    return Path(path)
