@@ -1,0 +1,56 @@
+"""Case files: parsing into dataclasses and refusing what the contract does not allow."""
+
+from __future__ import annotations
+
+import pytest
+from conftest import CANTILEVER
+
+from fem.case import Case, parse_case
+from fem.errors import CaseError
+
+
+def _cant(**kw) -> str:
+    args = {"length": 300.0, "size": 10.0, "levels": 1, "cuts": "[100.0]"}
+    args.update(kw)
+    return CANTILEVER.format(**args)
+
+
+def test_parse_beam_case():
+    c = parse_case(_cant(), "c.toml")
+    assert isinstance(c, Case)
+    assert c.kind == "beam" and c.units.stress == "MPa"
+    assert c.geometry.length == 300.0 and c.material.model == "plane-stress"
+    assert c.loads[0].distribution == "parabolic" and c.supports[0].where.edge == "left"
+    assert c.check.cuts == (100.0,) and c.mesh.order == 2
+
+
+@pytest.mark.parametrize("change, fragment", [
+    (("nu = 0.3", "nu = 0.5"), "material.nu: must be < 0.5"),
+    (("E = 200000.0", "E = -1.0"), "material.E: must be > 0"),
+    (("size = 10.0", "size = 0"), "mesh.size: must be > 0"),
+    (("fix = \"xy\"", "fix = \"z\""), "supports.0.fix: 'z' is not allowed"),
+    (("edge = \"right\"", "edge = \"rigth\""), "loads.0.edge: 'rigth' is not allowed"),
+    (("thickness = 10.0", "thickness = 10.0\nthicknes = 2.0"), "material.thicknes: unknown key"),
+    (("kind = \"beam\"", "kind = \"plate\""), "kind: 'plate' is not allowed"),
+    (("schema = 1", "schema = 7"), "schema: version 7 is not known"),
+    (("cuts = [100.0]", "cuts = [400.0]"), "check.cuts.0: 400 is outside the member"),
+    (("length = 300.0", "length = \"300\""), "geometry.length: must be a number"),
+])
+def test_bad_values_are_named(change, fragment):
+    """Each bad value is refused with the file, the key path and what is allowed."""
+    text = _cant().replace(*change)
+    with pytest.raises(CaseError) as err:
+        parse_case(text, "bad.toml")
+    assert fragment in str(err.value)
+    assert str(err.value).startswith("bad.toml")
+
+
+def test_toml_syntax_error_names_the_line():
+    with pytest.raises(CaseError) as err:
+        parse_case("schema = 1\nname = \n", "broken.toml")
+    assert err.value.line == 2 and "broken.toml:2" in str(err.value)
+
+
+def test_zero_load_refused():
+    with pytest.raises(CaseError, match="every load is zero"):
+        parse_case(_cant().replace("[0.0, -10000.0]", "[0.0, 0.0]"), "z.toml")
