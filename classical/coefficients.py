@@ -28,6 +28,7 @@ __all__ = [
     "cowper_hollow_circle",
     "cowper_i_section",
     "cowper_rectangle",
+    "cowper_thin_box",
     "cowper_thin_tube",
     "kirsch_hole_edge",
     "kirsch_hole_edge_extremes",
@@ -82,7 +83,8 @@ def cowper_i_section(nu: float, b: float, h: float, t_f: float, t_w: float) -> f
     n = b/h (h depth, b flange width, t_f, t_w thicknesses):
     k = 10 (1 + nu)(1 + 3 m)^2 / [(12 + 72 m + 150 m^2 + 90 m^3)
         + nu (11 + 66 m + 135 m^2 + 90 m^3) + 30 n^2 (m + m^2) + 5 nu n^2 (8 m + 9 m^2)].
-    m = 0 (no flanges) gives the rectangle.  Cowper 1966 (from memory)."""
+    m = 0 (no flanges) gives the rectangle.  Cowper 1966 (from memory; the same form is
+    widely reproduced)."""
     _nu(nu)
     for name, v in {"b": b, "h": h, "t_f": t_f, "t_w": t_w}.items():
         if not v > 0:
@@ -90,6 +92,23 @@ def cowper_i_section(nu: float, b: float, h: float, t_f: float, t_w: float) -> f
     m, n = 2 * b * t_f / (h * t_w), b / h
     den = (12 + 72 * m + 150 * m**2 + 90 * m**3) + nu * (11 + 66 * m + 135 * m**2 + 90 * m**3)
     den += 30 * n**2 * (m + m**2) + 5 * nu * n**2 * (8 * m + 9 * m**2)
+    return 10 * (1 + nu) * (1 + 3 * m) ** 2 / den
+
+
+def cowper_thin_box(nu: float, b: float, h: float, t_f: float, t_w: float) -> float:
+    """Thin-walled rectangular tube, shear parallel to the two webs of depth h and
+    thickness t_w, flanges of width b and thickness t_f; m = b t_f/(h t_w), n = b/h:
+    k = 10 (1 + nu)(1 + 3 m)^2 / [(12 + 72 m + 150 m^2 + 90 m^3)
+        + nu (11 + 66 m + 135 m^2 + 90 m^3) + 10 n^2 ((3 + nu) m + 3 m^2)].
+    Square tube (m = n = 1): 20 (1 + nu)/(48 + 39 nu); m = 0 gives the rectangle.
+    Cowper 1966 (from memory)."""
+    _nu(nu)
+    for name, v in {"b": b, "h": h, "t_f": t_f, "t_w": t_w}.items():
+        if not v > 0:
+            raise ValueError(f"{name} must be > 0")
+    m, n = b * t_f / (h * t_w), b / h
+    den = (12 + 72 * m + 150 * m**2 + 90 * m**3) + nu * (11 + 66 * m + 135 * m**2 + 90 * m**3)
+    den += 10 * n**2 * ((3 + nu) * m + 3 * m**2)
     return 10 * (1 + nu) * (1 + 3 * m) ** 2 / den
 
 

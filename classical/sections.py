@@ -1,6 +1,6 @@
 """Section geometry: the polygon route and the named-shape registry.
 
-This module is the public face of :mod:`classical.polygon` (outline, properties, first
+This module is the public face of :mod:`classical.geometry` (outline, properties, first
 moments, chords) and :mod:`classical.shapes` (outline builders and closed forms); it
 adds :data:`SHAPES` and :func:`section_outline`, which builds an outline by shape name::
 
@@ -13,7 +13,7 @@ from __future__ import annotations
 import inspect
 from collections.abc import Callable
 
-from classical.polygon import (
+from classical.geometry import (
     Outline,
     SectionProperties,
     chord_length,

@@ -22,7 +22,7 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from classical.polygon import Outline, SectionProperties
+from classical.geometry import Outline, SectionProperties
 
 __all__ = [
     "angle",

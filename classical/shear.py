@@ -18,7 +18,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.optimize import minimize_scalar
 
-from classical.polygon import (
+from classical.geometry import (
     Outline,
     chord_length,
     first_moment_above,
@@ -65,8 +65,8 @@ def shear_formula(V: float, Q: float, I: float, b: float) -> float:  # noqa: E74
 def shear_profile(outline: Outline, V: float, ys: np.ndarray | list[float]) -> np.ndarray:
     """tau(y) = V Q(y) / (Ixx b(y)) at each cut y in ``ys`` for a vertical shear V.
 
-    Q by exact clipping (:func:`classical.polygon.first_moment_above`), b the chord
-    length at y + 0 (:func:`classical.polygon.chord_length`); tau = 0 where b = 0
+    Q by exact clipping (:func:`classical.geometry.first_moment_above`), b the chord
+    length at y + 0 (:func:`classical.geometry.chord_length`); tau = 0 where b = 0
     (outside the section or on its top edge).  Applies to any outline, holes and
     multiple chords included (b is their total); see the module docstring for validity.
     """

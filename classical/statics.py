@@ -37,8 +37,8 @@ from numpy.typing import ArrayLike
 
 __all__ = [
     "BeamSolution",
-    "PatchLoad",
-    "PointLoad",
+    "ConcentratedLoad",
+    "DistributedLoad",
     "cantilever_end_moment",
     "cantilever_tip_load",
     "cantilever_uniform_load",
@@ -55,7 +55,7 @@ __all__ = [
 
 
 @dataclass(frozen=True)
-class PointLoad:
+class ConcentratedLoad:
     """Downward point load P [F] at x = a [L]."""
 
     P: float
@@ -63,7 +63,7 @@ class PointLoad:
 
 
 @dataclass(frozen=True)
-class PatchLoad:
+class DistributedLoad:
     """Downward uniform load w [F/L] over start <= x <= end [L]."""
 
     w: float
@@ -95,8 +95,8 @@ class BeamSolution:
     R_b: float
     M_b: float
     theta_a: float
-    point_loads: tuple[PointLoad, ...] = ()
-    patch_loads: tuple[PatchLoad, ...] = ()
+    point_loads: tuple[ConcentratedLoad, ...] = ()
+    patch_loads: tuple[DistributedLoad, ...] = ()
 
     def _sum(self, x: ArrayLike, n: int, coeffs: tuple[float, float]) -> np.ndarray:
         """Load terms of the n-th integral: sum P <x-a>^n / c_p + w (<x-s>^m - <x-e>^m) / c_w."""
@@ -164,8 +164,8 @@ def _check(L: float, EI: float, kGA: float, *positions: float) -> float:
 
 
 def _build(case: str, L: float, EI: float, kGA: float, R_a: float, M_a: float, R_b: float,
-           pinned: bool, points: tuple[PointLoad, ...] = (),
-           patches: tuple[PatchLoad, ...] = ()) -> BeamSolution:
+           pinned: bool, points: tuple[ConcentratedLoad, ...] = (),
+           patches: tuple[DistributedLoad, ...] = ()) -> BeamSolution:
     """Assemble; for pinned A, theta_a makes w_b(L) = 0, else theta_a = 0 (clamp)."""
     sol = BeamSolution(case, L, EI, kGA, R_a, M_a, R_b, 0.0, 0.0, points, patches)
     theta = -float(sol.deflection_bending(L)) / L if pinned else 0.0
@@ -177,7 +177,8 @@ def cantilever_tip_load(P: float, L: float, EI: float, kGA: float = math.inf) ->
     """Cantilever, tip load P at x = L: R_a = P, M_a = -P L;
     w(L) = P L^3/(3 EI) + P L/(k G A).  Roark 7th ed. Table 8.1 case 1a."""
     _check(L, EI, kGA)
-    return _build("cantilever_tip_load", L, EI, kGA, P, -P * L, 0.0, False, (PointLoad(P, L),))
+    return _build("cantilever_tip_load", L, EI, kGA, P, -P * L, 0.0, False,
+                  (ConcentratedLoad(P, L),))
 
 
 def cantilever_uniform_load(w: float, L: float, EI: float, kGA: float = math.inf) -> BeamSolution:
@@ -185,7 +186,7 @@ def cantilever_uniform_load(w: float, L: float, EI: float, kGA: float = math.inf
     w(L) = w L^4/(8 EI) + w L^2/(2 k G A).  Roark 7th ed. Table 8.1 case 2a."""
     _check(L, EI, kGA)
     return _build("cantilever_uniform_load", L, EI, kGA, w * L, -w * L**2 / 2, 0.0, False,
-                  patches=(PatchLoad(w, 0.0, L),))
+                  patches=(DistributedLoad(w, 0.0, L),))
 
 
 def cantilever_end_moment(M0: float, L: float, EI: float, kGA: float = math.inf) -> BeamSolution:
@@ -203,7 +204,7 @@ def simply_supported_point_load(
     w(a) = P a^2 b^2/(3 EI L) + P a b/(L k G A).  Roark 7th ed. Table 8.1 case 1e."""
     _check(L, EI, kGA, a)
     return _build("simply_supported_point_load", L, EI, kGA, P * (L - a) / L, 0.0, P * a / L,
-                  True, (PointLoad(P, a),))
+                  True, (ConcentratedLoad(P, a),))
 
 
 def simply_supported_uniform_load(
@@ -213,7 +214,7 @@ def simply_supported_uniform_load(
     w(L/2) = 5 w L^4/(384 EI) + w L^2/(8 k G A).  Roark 7th ed. Table 8.1 case 2e."""
     _check(L, EI, kGA)
     return _build("simply_supported_uniform_load", L, EI, kGA, w * L / 2, 0.0, w * L / 2, True,
-                  patches=(PatchLoad(w, 0.0, L),))
+                  patches=(DistributedLoad(w, 0.0, L),))
 
 
 def simply_supported_patch_load(
@@ -227,7 +228,7 @@ def simply_supported_patch_load(
         raise ValueError("need start < end")
     c, m = end - start, (start + end) / 2
     return _build("simply_supported_patch_load", L, EI, kGA, w * c * (L - m) / L, 0.0,
-                  w * c * m / L, True, patches=(PatchLoad(w, start, end),))
+                  w * c * m / L, True, patches=(DistributedLoad(w, start, end),))
 
 
 def propped_cantilever_uniform_load(
@@ -240,7 +241,7 @@ def propped_cantilever_uniform_load(
     phi = _check(L, EI, kGA)
     r_a = w * L * (5 + phi) / (2 * (4 + phi))
     return _build("propped_cantilever_uniform_load", L, EI, kGA, r_a, -w * L**2 / (2 * (4 + phi)),
-                  w * L - r_a, False, patches=(PatchLoad(w, 0.0, L),))
+                  w * L - r_a, False, patches=(DistributedLoad(w, 0.0, L),))
 
 
 def propped_cantilever_point_load(
@@ -254,7 +255,7 @@ def propped_cantilever_point_load(
     b = L - a
     r_a = P * b * (6 * L**2 - 2 * b**2 + phi * L**2) / (L**3 * (4 + phi))
     return _build("propped_cantilever_point_load", L, EI, kGA, r_a, P * b - r_a * L, P - r_a,
-                  False, (PointLoad(P, a),))
+                  False, (ConcentratedLoad(P, a),))
 
 
 def fixed_fixed_uniform_load(
@@ -265,7 +266,7 @@ def fixed_fixed_uniform_load(
     Roark 7th ed. Table 8.1 case 2d."""
     _check(L, EI, kGA)
     return _build("fixed_fixed_uniform_load", L, EI, kGA, w * L / 2, -w * L**2 / 12, w * L / 2,
-                  False, patches=(PatchLoad(w, 0.0, L),))
+                  False, patches=(DistributedLoad(w, 0.0, L),))
 
 
 def fixed_fixed_point_load(
@@ -281,4 +282,4 @@ def fixed_fixed_point_load(
     r_a = P * b * (phi * L**2 + 3 * b * L - 2 * b**2) / (L**3 * (1 + phi))
     m_a = -P * a * b * (2 * b + phi * L) / (2 * L**2 * (1 + phi))
     return _build("fixed_fixed_point_load", L, EI, kGA, r_a, m_a, P - r_a, False,
-                  (PointLoad(P, a),))
+                  (ConcentratedLoad(P, a),))

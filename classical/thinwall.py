@@ -27,7 +27,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from classical.polygon import SectionProperties
+from classical.geometry import SectionProperties
 
 __all__ = [
     "ShearCentre",
@@ -222,9 +222,9 @@ def shear_centre(segments: Sequence[WallSegment]) -> ShearCentre:
     """Shear centre of an open thin-walled section: the point through which the shear
     flow of a shear Vy = 1 (and of Vx = 1) passes, x_sc = Mz(Vy=1), y_sc = -Mz(Vx=1)
     about the origin.  Source: definition of the shear centre (Megson, Ch. 16)."""
-    return ShearCentre(
-        shear_flow_resultant(segments, 1.0, 0.0).Mz, -shear_flow_resultant(segments, 0.0, 1.0).Mz
-    )
+    x = shear_flow_resultant(segments, 1.0, 0.0).Mz
+    y = -shear_flow_resultant(segments, 0.0, 1.0).Mz
+    return ShearCentre(x + 0.0, y + 0.0)  # + 0.0 turns -0.0 into 0.0
 
 
 def i_centreline(h: float, b: float, t_f: float, t_w: float) -> tuple[WallSegment, ...]:

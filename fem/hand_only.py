@@ -88,7 +88,12 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
 
 def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     """Section properties and hand shear stresses of a section case."""
-    from classical.sections import first_moment_above, polygon_properties, section_outline
+    from classical.sections import (
+        chord_length,
+        first_moment_above,
+        polygon_properties,
+        section_outline,
+    )
     from classical.shear import average_shear, direct_shear, max_shear_formula
 
     g = case.geometry
@@ -114,8 +119,9 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
              f"  shear V = [{Vx:g}, {Vy:g}] {F}"]
     if mx is not None:
         q = first_moment_above(outline, mx.y_at)
+        b = chord_length(outline, mx.y_at)
         lines.append(f"  shear formula (Vy) worst cut y = {mx.y_at:.4g} {L}: tau = V Q/(I b) = "
-                     f"{abs(Vy):.6g} x {q:.6g} / ({p.Ixx:.6g} x b) = {tau_formula:.4g} {S}")
+                     f"{abs(Vy):.6g} x {q:.6g} / ({p.Ixx:.6g} x {b:.4g}) = {tau_formula:.4g} {S}")
     lines.append(f"  average V/A = {V:.6g}/{p.A:.6g} = {avg:.4g} {S}")
     if method in ("single-shear", "double-shear"):
         n = 1 if method == "single-shear" else 2

@@ -246,7 +246,8 @@ def test_orientation_is_normalised() -> None:
     p = polygon_properties(polygon(outer, [hole]))
     assert p.A == pytest.approx(100 * 60 - 80 * 40, rel=1e-14)
     assert p.Ixx == pytest.approx((100 * 60**3 - 80 * 40**3) / 12, rel=1e-13)
-    assert isinstance(Outline(outer), Outline) and _signed(Outline(outer).outer) > 0
+    normalised = Outline(outer, (hole,))
+    assert _signed(normalised.outer) > 0 and _signed(normalised.holes[0]) < 0
 
 
 def _signed(ring: np.ndarray) -> float:
