@@ -14,6 +14,7 @@ from typing import Any
 
 from .case import Case, load_case
 from .outputs import staged_output, summary_table
+from .progress import Progress
 from .results import Result, write_json
 
 __all__ = ["CheckResult", "check", "write_outputs"]
@@ -63,10 +64,37 @@ class CheckResult:
 
         return section_profile_figure(self, Path(path))
 
+    def plot_von_mises(self, path: str | Path) -> Path:
+        """Von Mises contour of a beam check, with cuts, supports and loads, to `path`."""
+        if self.case.kind != "beam":
+            raise ValueError("the von Mises contour belongs to beam checks; a section check "
+                             "carries its shear stresses only (plot_shear)")
+        from .plots import contour_figure
+
+        return contour_figure(self.case, self.run.finest, self.result.cuts, "von_mises",
+                              Path(path))
+
+    def plot_convergence(self, path: str | Path) -> Path:
+        """The convergence figure (needs mesh.levels >= 2) to `path`."""
+        from .plots_convergence import convergence_figure, has_study
+
+        if not has_study(self.result.convergence):
+            raise ValueError("a convergence figure needs two or more mesh levels; set "
+                             "mesh.levels in the case")
+        return convergence_figure(self.result.convergence, self.result.units, Path(path))
+
+    def write_report(self, folder: str | Path) -> list[Path]:
+        """The whole output folder with the design note (see `write_outputs`)."""
+        return write_outputs(self, folder, report=True)
+
 
 def check(path_or_case: str | Path | Case,
-          progress: Callable[[str], None] | None = None) -> CheckResult:
-    """Run a case file (or a loaded `Case`) and return the result; writes nothing."""
+          progress: Progress | Callable[[str], None] | None = None) -> CheckResult:
+    """Run a case file (or a loaded `Case`) and return the result; writes nothing.
+
+    `progress` is a `fem.progress.Progress` (e.g. `BarProgress()` for a bar on stderr) or
+    a plain ``callable(message)`` called as each mesh level begins.
+    """
     case = path_or_case if isinstance(path_or_case, Case) else load_case(path_or_case)
     if case.kind == "beam":
         from .run import check_beam
@@ -79,14 +107,28 @@ def check(path_or_case: str | Path | Case,
 
 
 def write_outputs(res: CheckResult, out: str | Path, report: bool = True) -> list[Path]:
-    """Write the output folder atomically; return the files written."""
+    """Write the output folder atomically; return the files written.
+
+    With `report` (the default): the PNG figures, fields.vtu and profiles.csv
+    (`fem.fields`), report.html and report.pdf (`fem.report`) and results.json; without
+    it results.json only.
+    """
     out = Path(out)
     names: list[str] = []
+    figures: list[str] = []
     with staged_output(out) as stage:
         if report:
+            from .fields import write_fields
             from .figures import write_figures
+            from .report import write_report
 
-            names += [p.name for p in write_figures(res, stage)]
+            figs = write_figures(res, stage)
+            figures = [p.name for p in figs]
+            names += figures
+            names += [p.name for p in write_fields(res, stage)]
+            names += [p.name for p in write_report(res, stage, figs)]
         write_json(res.result, stage / "results.json")
         names.append("results.json")
+    if report:
+        res.figures = [out / n for n in figures]
     return [out / n for n in names]

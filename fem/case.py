@@ -16,7 +16,7 @@ from typing import Any
 from classical.units import FORCE_UNITS, LENGTH_UNITS, stress_unit
 
 from .errors import CaseError
-from .reader import Table
+from .reader import Table, line_of
 
 __all__ = [
     "Case", "Units", "Material", "Hole", "Cutout", "Zone", "Placement", "Support", "Load",
@@ -25,6 +25,7 @@ __all__ = [
 ]
 
 SCHEMA = 1
+MAX_NAME = 64  # characters in a case name (it becomes a folder name)
 EDGES = ("left", "right", "top", "bottom")
 METHODS = ("shear-formula", "average", "single-shear", "double-shear")
 FIXES = ("xy", "x", "y")
@@ -183,13 +184,27 @@ def load_case(path: str | Path) -> Case:
         text = path.read_text(encoding="utf-8")
     except FileNotFoundError:
         raise CaseError(name, "", "file not found") from None
-    except (OSError, UnicodeDecodeError) as exc:
+    except UnicodeDecodeError:
+        raise CaseError(name, "", "cannot read the file: it is not UTF-8 text") from None
+    except OSError as exc:
         raise CaseError(name, "", f"cannot read the file ({exc.__class__.__name__})") from None
     return parse_case(text, name)
 
 
 def parse_case(text: str, file: str = "<case>") -> Case:
-    """Parse TOML text into a validated `Case`."""
+    """Parse TOML text into a validated `Case`; a `CaseError` names the line where it can."""
+    try:
+        return _parse(text, file)
+    except CaseError as exc:
+        if exc.line is not None or not exc.key:
+            raise
+        line = line_of(text, exc.key)
+        if line is None:
+            raise
+        raise CaseError(exc.file, exc.key, exc.message, line) from None
+
+
+def _parse(text: str, file: str) -> Case:
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
@@ -203,6 +218,9 @@ def parse_case(text: str, file: str = "<case>") -> Case:
                                   f"schema = {SCHEMA}")
     case_name = top.text("name", pattern=lambda s: re.fullmatch(r"[a-z0-9-]+", s) is not None,
                          describe="use lower-case letters, digits and '-' only")
+    if len(case_name) > MAX_NAME:
+        raise top.error("name", f"is {len(case_name)} characters long; at most {MAX_NAME} "
+                                "(it names the output folder)")
     title = top.text("title", case_name)
     kind = top.text("kind", allowed=("beam", "section"))
     units = _units(top.table("units", None), top)
@@ -236,6 +254,13 @@ def parse_case(text: str, file: str = "<case>") -> Case:
         from .plane import validate_geometry
 
         validate_geometry(case)
+    else:
+        from .section_validate import validate_section
+
+        validate_section(case)
+    from .sizing import check_size
+
+    check_size(case)
     return case
 
 
@@ -306,6 +331,10 @@ def _beam_geometry(t: Table) -> BeamGeometry:
         from .reader import as_point
 
         points = tuple(as_point(p, t.file, f"{t.key('points')}.{i}") for i, p in enumerate(raw))
+        for i in range(1, len(points)):
+            if points[i] == points[i - 1]:
+                raise t.error(f"points.{i}", f"{list(points[i])} repeats the point before it; "
+                                             "give each corner once")
     holes = []
     for h in t.tables("holes"):
         holes.append(Hole(center=h.point("center"),

@@ -1,4 +1,4 @@
-"""Command line: `shearcheck run | demo | hand`.
+"""Command line: `shearcheck run | demo | hand | regress | sweep`.
 
 Exit codes: 0 the check ran (any verdict), 2 bad input (one line on stderr, no traceback),
 1 internal error (short message; the traceback goes to `shearcheck-error.log` in the
@@ -38,21 +38,44 @@ def _parser() -> argparse.ArgumentParser:
     h.add_argument("case", type=Path)
     h.add_argument("--out", type=Path, default=None)
     h.add_argument("--quiet", action="store_true")
+    _suite_parsers(sub)
     return p
 
 
+def _suite_parsers(sub) -> None:
+    g = sub.add_parser("regress", help="run the bundled cases against their baselines")
+    g.add_argument("folder", type=Path, nargs="?", default=Path("cases"),
+                   help="folder of NAME.toml cases with NAME.baseline.json (default: cases)")
+    g.add_argument("--only", nargs="+", metavar="NAME", help="only these cases")
+    g.add_argument("--update", action="store_true", help="rewrite the baselines")
+    g.add_argument("--levels", type=int, default=None,
+                   help="mesh levels (default: those the baselines were made with)")
+    g.add_argument("--workers", type=int, default=None, help="processes (default: the cores)")
+    g.add_argument("--quiet", action="store_true", help="no progress bar; drifts only")
+    w = sub.add_parser("sweep", help="run a case over ranges of its keys")
+    w.add_argument("case", type=Path)
+    w.add_argument("--vary", action="append", required=True, metavar="KEY=START:STOP:N",
+                   help="a dotted key of the case file and its range (repeat for a product)")
+    w.add_argument("--out", type=Path, default=None, help="default: out/sweep-<case name>")
+    w.add_argument("--workers", type=int, default=None, help="processes (default: the cores)")
+    w.add_argument("--scheduler", default=None, metavar="ADDRESS",
+                   help="a running Dask scheduler, e.g. tcp://10.0.0.5:8786, instead of "
+                        "local processes")
+    w.add_argument("--levels", type=int, default=None, help="set mesh.levels of every point")
+    w.add_argument("--quiet", action="store_true", help="no progress bar or summary")
+
+
 def _progress(quiet: bool):
-    if quiet or not sys.stderr.isatty():
-        return None
-    return lambda msg: print(f"  {msg}", file=sys.stderr, flush=True)
+    """A progress bar on stderr (tqdm), or None with --quiet or when stderr is no terminal."""
+    from .progress import console_progress
+
+    return console_progress(quiet)
 
 
 def _run(case_path: Path, out: Path | None, report: bool, quiet: bool) -> int:
     from .api import check, write_outputs
-    from .case import load_case
 
-    case = load_case(case_path)
-    out = out if out is not None else Path("out") / case.name
+    case, out = _load(case_path, out)
     try:
         res = check(case, progress=_progress(quiet))
         write_outputs(res, out, report=report)
@@ -68,16 +91,81 @@ def _run(case_path: Path, out: Path | None, report: bool, quiet: bool) -> int:
 
 
 def _hand(case_path: Path, out: Path | None, quiet: bool) -> int:
-    from .case import load_case
     from .hand_only import hand_check
 
-    case = load_case(case_path)
-    out = out if out is not None else Path("out") / case.name
+    case, out = _load(case_path, out)
     text = hand_check(case, out)
     if not quiet:
         print(text)
         print(f"outputs: {out}")
     return 0
+
+
+def _regress(args: argparse.Namespace) -> int:
+    from .regress import format_table, run_suite
+
+    for n in (args.levels, args.workers):
+        if n is not None and n < 1:
+            raise CaseError("command line", "--levels/--workers", f"must be >= 1, got {n}")
+    try:
+        rep = run_suite(args.folder, only=args.only, update=args.update, levels=args.levels,
+                        workers=args.workers, quiet=args.quiet)
+    except (CaseError, SolveError):
+        raise
+    except Exception:
+        _log_internal(Path("out"))
+        raise
+    print(format_table(rep, all_rows=args.update or not args.quiet))
+    return 0 if rep.holds else 1   # drift, a missing baseline or a case that fails
+
+
+def _sweep(args: argparse.Namespace) -> int:
+    from .case import load_case
+    from .sweep import parse_vary, run_sweep
+
+    varies = [parse_vary(v) for v in args.vary]
+    out = args.out if args.out is not None else Path("out") / f"sweep-{load_case(args.case).name}"
+    if args.workers is not None and args.workers < 1:
+        raise CaseError("command line", "--workers", f"must be >= 1, got {args.workers}")
+    try:
+        rep = run_sweep(args.case, varies, out, workers=args.workers,
+                        scheduler=args.scheduler, levels=args.levels, quiet=args.quiet)
+    except (CaseError, SolveError):
+        raise
+    except Exception:
+        _log_internal(out)
+        raise
+    if not args.quiet:
+        s = rep.summary
+        print(f"{s['points']} points ({rep.ran} run now, {rep.skipped} already done): "
+              f"{s['ok']} ok, {s['failed']} failed")
+        for f in s["failures"]:
+            print(f"  failed {f['id']} {f['params']}: {f['message']}")
+        if len(varies) == 1:
+            th = s["threshold"]
+            print(f"max ratio crosses 1 + tolerance = {s['level']:g} at "
+                  f"{varies[0].key} = {th:.4g}" if th is not None else
+                  f"max ratio never crosses 1 + tolerance = {s['level']:g} in this range")
+        print(f"outputs: {out} (sweep.csv, summary.json, ratio.png)")
+    return 0
+
+
+def _load(case_path: Path, out: Path | None):
+    """The case and its output folder (default out/<name>: the name cannot hold a path)."""
+    from .case import load_case
+
+    try:
+        case = load_case(case_path)
+    except (CaseError, SolveError):
+        raise
+    except Exception:
+        _log_internal(out if out is not None else Path("out"))
+        raise
+    out = out if out is not None else Path("out") / case.name
+    if out.exists() and not out.is_dir():
+        raise CaseError(str(out), "--out", "exists and is not a folder; give a folder for the "
+                                           "outputs")
+    return case, out
 
 
 def _log_internal(out: Path) -> None:
@@ -98,6 +186,10 @@ def main(argv: list[str] | None = None) -> int:
                 return _run(p, args.out, not args.no_report, args.quiet)
         if args.command == "hand":
             return _hand(args.case, args.out, args.quiet)
+        if args.command == "regress":
+            return _regress(args)
+        if args.command == "sweep":
+            return _sweep(args)
     except CaseError as exc:
         print(f"shearcheck: {exc}", file=sys.stderr)
         return 2

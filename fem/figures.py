@@ -1,4 +1,4 @@
-"""All figures of a run, by kind: one call from the output writer."""
+"""All figures of a run, by kind, plus the convergence figure: one call from the output writer."""
 
 from __future__ import annotations
 
@@ -18,5 +18,10 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
         from .section_run import write_section_figures
 
         paths = write_section_figures(res, folder)
+    from .plots_convergence import convergence_figure, has_study
+
+    if has_study(res.result.convergence):
+        paths.append(convergence_figure(res.result.convergence, res.result.units,
+                                        Path(folder) / "convergence.png"))
     res.figures = paths
     return paths

@@ -20,7 +20,8 @@ from skfem import MeshTri1, MeshTri2
 from .case import Case
 from .errors import SolveError
 from .geometry import build_member, gmsh_session, name_boundaries
-from .plane import Patch, domain_polygon, patches, reentrant_corners
+from .plane import Patch, check_mechanism, domain_polygon, patches, reentrant_corners
+from .sizing import estimate_dofs
 
 __all__ = ["MemberMesh", "mesh_member", "estimate_dofs", "level_size"]
 
@@ -49,14 +50,6 @@ class MemberMesh:
 def level_size(case: Case, level: int) -> float:
     """Element size at convergence level `level` (0 = coarsest): halving each time."""
     return case.mesh.size / 2.0 ** level
-
-
-def estimate_dofs(case: Case, size: float) -> int:
-    """Rough dof count for a P1/P2 mesh of `size` (about 2.3 triangles per size^2)."""
-    area = domain_polygon(case.geometry).area  # type: ignore[arg-type]
-    tris = 2.3 * area / size**2
-    nodes = tris / 2 * (4 if case.mesh.order == 2 else 1)
-    return int(2 * nodes * 1.15)
 
 
 def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch]) -> None:
@@ -145,20 +138,25 @@ def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
                         f"above the limit {case.mesh.max_dofs:,}; raise mesh.size or max_dofs")
     dom = domain_polygon(g)  # type: ignore[arg-type]
     sup, lds = patches(case, dom)
+    check_mechanism(case, sup)  # refuse a mechanism before gmsh runs
     t0 = time.perf_counter()
     x0, y0, x1, y1 = dom.bounds
     tol = 1e-7 * max(x1 - x0, y1 - y0)
     with gmsh_session():
-        surf_names = build_member(g, sup, lds)  # type: ignore[arg-type]
-        groups = name_boundaries(g, sup, lds, tol)  # type: ignore[arg-type]
-        _size_fields(case, size, sup, lds)
-        gmsh.option.setNumber("Mesh.Algorithm", 6)
         try:
+            surf_names = build_member(g, sup, lds)  # type: ignore[arg-type]
+            groups = name_boundaries(g, sup, lds, tol)  # type: ignore[arg-type]
+            _size_fields(case, size, sup, lds)
+            gmsh.option.setNumber("Mesh.Algorithm", 6)
             gmsh.model.mesh.generate(2)
             if case.mesh.order == 2:
                 gmsh.model.mesh.setOrder(2)
-        except Exception as exc:  # gmsh raises plain Exception
-            raise SolveError(f"gmsh could not mesh the member at size {size:g}: {exc}") from None
+        except Exception as exc:
+            if type(exc) is not Exception:  # gmsh raises plain Exception; anything else is ours
+                raise
+            raise SolveError(f"gmsh could not build or mesh the member at size {size:g} "
+                             f"({exc}); check the geometry for features much smaller than "
+                             "the element size, or change mesh.size") from None
         mm = _hand_over(case, size, surf_names, groups)
     mm.supports, mm.loads = sup, lds
     mm.seconds = time.perf_counter() - t0

@@ -23,10 +23,11 @@ from .errors import CaseError
 __all__ = [
     "Patch", "Corner", "Strip", "outline_polygon", "domain_polygon", "cutout_polygon",
     "resolve_patch", "patches", "cut_strips", "reentrant_corners", "validate_geometry",
-    "bounding_box", "ARC_SEGMENTS",
+    "bounding_box", "check_mechanism", "ARC_SEGMENTS",
 ]
 
 ARC_SEGMENTS = 64  # polyline segments per quarter circle in the shapely model
+MIN_FEATURE = 1e-6  # patch widths, stretches and cut margins below this x member size: refused
 
 
 @dataclass(frozen=True)
@@ -90,7 +91,11 @@ class Strip:
 def outline_polygon(g: BeamGeometry) -> Polygon:
     if g.shape == "rectangle":
         return box(0.0, 0.0, g.length, g.depth)
-    return shapely.geometry.polygon.orient(Polygon(g.points), 1.0)
+    # tolerance 0 drops only exactly collinear vertices: one edge per straight stretch
+    poly = Polygon(g.points)
+    if poly.is_valid:
+        poly = shapely.simplify(poly, 0.0)
+    return shapely.geometry.polygon.orient(poly, 1.0)
 
 
 def cutout_polygon(c: Cutout, outline: Polygon) -> Polygon:
@@ -152,8 +157,25 @@ def _boundary_edges(dom: Polygon) -> list[tuple[np.ndarray, np.ndarray]]:
     edges = []
     for ring in [dom.exterior, *dom.interiors]:
         c = np.asarray(ring.coords)
-        edges += [(c[i], c[i + 1]) for i in range(len(c) - 1)]
+        edges += [(c[i], c[i + 1]) for i in range(len(c) - 1) if np.any(c[i] != c[i + 1])]
     return edges
+
+
+def _extent(dom: Polygon) -> float:
+    x0, y0, x1, y1 = dom.bounds
+    return max(x1 - x0, y1 - y0)
+
+
+def _onto_boundary(p: tuple[float, float], dom: Polygon, eps: float) -> tuple[float, float]:
+    """`p` moved onto the boundary, and onto a boundary vertex closer than `eps`."""
+    q = dom.boundary.interpolate(dom.boundary.project(Point(p)))
+    best = (q.x, q.y)
+    for ring in [dom.exterior, *dom.interiors]:
+        c = np.asarray(ring.coords)
+        k = int(np.argmin(np.hypot(c[:, 0] - q.x, c[:, 1] - q.y)))
+        if math.dist(c[k], best) < eps:
+            return (float(c[k, 0]), float(c[k, 1]))
+    return (float(best[0]), float(best[1]))
 
 
 def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygon) -> Patch:
@@ -177,23 +199,39 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
             raise CaseError(file, f"{key}.edge", f"nothing of the {where.edge} edge is left "
                                                  "after holes and cut-outs")
         return Patch(name=name, segments=tuple(_snap(s, where.edge, g) for s in segs))
+    eps = MIN_FEATURE * _extent(dom)
     if where.start is not None:
-        a, b = where.start, where.end
-        for label, p in (("from", a), ("to", b)):
+        for label, p in (("from", where.start), ("to", where.end)):
             if dom.boundary.distance(Point(p)) > 1e3 * tol:
                 raise CaseError(file, f"{key}.{label}", f"{list(p)} is not on the outline")
+        a, b = _onto_boundary(where.start, dom, eps), _onto_boundary(where.end, dom, eps)
+        if math.dist(a, b) < eps:
+            raise CaseError(file, f"{key}.to", f"is only {math.dist(a, b):.3g} from 'from'; a "
+                                               f"stretch must be at least {eps:.3g} long (use "
+                                               "at + width = 0 for a point)")
         seg = LineString([a, b])
         covered = dom.boundary.intersection(seg.buffer(1e3 * tol)).length
-        if abs(covered - seg.length) > 1e-4 * seg.length or not _on_one_edge(dom, a, b, tol):
+        if covered < (1 - 1e-4) * seg.length or not _on_one_edge(dom, a, b, tol):
             raise CaseError(file, key, f"the stretch {list(a)} to {list(b)} does not lie on a "
                                        "single straight stretch of the outline")
+        if _on_curve(a, g, tol) and _on_curve(b, g, tol):
+            raise CaseError(file, key, f"the stretch {list(a)} to {list(b)} lies on a curved "
+                                       "part of the outline (a hole or fillet); a patch needs "
+                                       "a straight stretch")
         return Patch(name=name, segments=((a, b),))
     # at + width
-    p = np.asarray(where.at, float)
-    if dom.boundary.distance(Point(p)) > 1e3 * tol:
+    if dom.boundary.distance(Point(where.at)) > 1e3 * tol:
         raise CaseError(file, f"{key}.at", f"{list(where.at)} is not on the outline")
+    p = np.asarray(_onto_boundary(where.at, dom, eps), float)
     if where.width == 0:
         return Patch(name=name, point=(float(p[0]), float(p[1])))
+    if where.width < eps:
+        raise CaseError(file, f"{key}.width", f"{where.width:g} is too narrow to mesh; give 0 "
+                                              f"for a point or at least {eps:.3g}")
+    if _on_curve(where.at, g, tol):
+        raise CaseError(file, f"{key}.at", f"{list(where.at)} lies on a curved part of the "
+                                           "outline (a hole or fillet); a patch needs a "
+                                           "straight stretch")
     for e0, e1 in _boundary_edges(dom):
         d = e1 - e0
         L = float(np.hypot(*d))
@@ -201,6 +239,7 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
         off = abs(_cross(d, p - e0) / L)
         if off < 1e3 * tol and -1e3 * tol <= s <= L + 1e3 * tol:
             s0, s1 = s - where.width / 2, s + where.width / 2
+            s0, s1 = (0.0 if abs(s0) < eps else s0), (L if abs(s1 - L) < eps else s1)
             if s0 < -1e-6 * L or s1 > L * (1 + 1e-6):
                 raise CaseError(file, f"{key}.width",
                                 f"{where.width:g} runs past the end of the straight stretch "
@@ -210,6 +249,30 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
             return Patch(name=name, segments=((a, b),))  # type: ignore[arg-type]
     raise CaseError(file, f"{key}.at", f"{list(where.at)} lies on a curved part of the outline;"
                                        " a patch needs a straight stretch")
+
+
+def _on_curve(p, g: BeamGeometry, tol: float) -> bool:
+    """Is `p` on a hole circle or a cut-out fillet arc (away from the arc's ends)?"""
+    near = 1e3 * tol
+    for h in g.holes:
+        if abs(math.dist(p, h.center) - h.radius) < near:
+            return True
+    outline = outline_polygon(g)
+    for c in g.cutouts:
+        if c.fillet <= 0:
+            continue
+        (x0, y0), (w, hgt), r = c.corner, c.size, c.fillet
+        corners = [(x0, y0), (x0 + w, y0), (x0 + w, y0 + hgt), (x0, y0 + hgt)]
+        for (cx, cy), (sx, sy) in zip(corners, [(1, 1), (-1, 1), (-1, -1), (1, -1)],
+                                      strict=True):
+            if not outline.buffer(-1e-9 * (w + hgt)).contains(Point(cx, cy)):
+                continue
+            ox, oy = cx + sx * r, cy + sy * r
+            between = (min(cx, ox) + near < p[0] < max(cx, ox) - near
+                       and min(cy, oy) + near < p[1] < max(cy, oy) - near)
+            if between and abs(math.dist(p, (ox, oy)) - r) < near:
+                return True
+    return False
 
 
 def _snap(seg, edge: str, g: BeamGeometry):
@@ -301,6 +364,42 @@ def _cross(a: np.ndarray, b: np.ndarray) -> float:
     return float(a[0] * b[1] - a[1] * b[0])
 
 
+def check_mechanism(case: Case, supports: list[Patch]) -> None:
+    """Refuse supports that leave rigid motion in x, y or rotation free.
+
+    x-restraints act along horizontal lines (their y matters), y-restraints along vertical
+    lines (their x matters). A rigid rotation about P is stopped unless every restraint
+    line passes through P: all x-restraints at one y and all y-restraints at one x.
+    """
+    xs, ys = [], []
+    for s, patch in zip(case.supports, supports, strict=True):
+        pts = patch.ends if patch.point is None else [patch.point]
+        if "x" in s.fix:
+            xs += pts
+        if "y" in s.fix:
+            ys += pts
+    all_pts = xs + ys
+    span = max(max(p[0] for p in all_pts) - min(p[0] for p in all_pts),
+               max(p[1] for p in all_pts) - min(p[1] for p in all_pts), 0.0) if all_pts else 0.0
+    x0, y0, x1, y1 = outline_polygon(case.geometry).bounds  # type: ignore[arg-type]
+    tiny = 1e-9 * max(x1 - x0, y1 - y0, span)
+    free = []
+    if not xs:
+        free.append("x (no support fixes x)")
+    if not ys:
+        free.append("y (no support fixes y)")
+    if xs and ys:
+        spread_x = max(p[1] for p in xs) - min(p[1] for p in xs)
+        spread_y = max(p[0] for p in ys) - min(p[0] for p in ys)
+        if spread_x <= tiny and spread_y <= tiny:
+            free.append(f"rotation (every restraint passes through ({ys[0][0]:g}, "
+                        f"{xs[0][1]:g}))")
+    if free:
+        raise CaseError(case.file, "supports",
+                        f"the supports cannot stop rigid motion in {' and '.join(free)}; "
+                        "add or widen a support")
+
+
 def validate_geometry(case: Case) -> None:
     """Geometric checks that need the outline; raise CaseError naming the key."""
     g: BeamGeometry = case.geometry  # type: ignore[assignment]
@@ -315,8 +414,12 @@ def validate_geometry(case: Case) -> None:
             raise CaseError(f, f"geometry.holes.{i}", "the hole must lie inside the outline, "
                                                       "clear of its edge")
         for j, other in enumerate(g.holes[:i]):
-            if math.dist(h.center, other.center) <= h.radius + other.radius:
+            if math.dist(h.center, other.center) <= h.radius + other.radius + 1e-6 * size:
                 raise CaseError(f, f"geometry.holes.{i}", f"overlaps hole {j}")
+        for j, c in enumerate(g.cutouts):
+            if cutout_polygon(c, outline).distance(disk) <= 1e-6 * size:
+                raise CaseError(f, f"geometry.holes.{i}", f"touches or overlaps cut-out {j}; "
+                                                          "a hole must stand clear of cut-outs")
     for i, c in enumerate(g.cutouts):
         if not cutout_polygon(c, outline).intersects(outline):
             raise CaseError(f, f"geometry.cutouts.{i}", "lies wholly outside the outline")
@@ -338,8 +441,9 @@ def validate_geometry(case: Case) -> None:
                                                         f"{case.mesh.size:g}")
     if case.check.cuts:
         x0, _, x1, _ = dom.bounds
+        eps = MIN_FEATURE * (x1 - x0)
         for i, x in enumerate(case.check.cuts):
-            if not x0 < x < x1:
+            if not x0 + eps < x < x1 - eps:
                 raise CaseError(f, f"check.cuts.{i}", f"{x:g} is outside the member "
                                                       f"({x0:g} < x < {x1:g})")
             if not cut_strips(g, x, 1.0, dom):

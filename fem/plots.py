@@ -2,11 +2,15 @@
 
 Colour: a diverging, perceptually uniform map centred on zero for signed shear
 ('coolwarm' with a symmetric norm), a sequential one for magnitudes ('cividis');
-Gouraud shading, no contour bands. Every figure names its quantity and units.
+Gouraud shading, no contour bands. The colour scale ends at the largest value outside the
+excluded zones (boundary idealisations, drawn as dotted circles), so that a support corner
+does not wash out the rest of the member; the colour bar shows an arrow when values beyond
+it exist. Every figure names its quantity and units.
 """
 
 from __future__ import annotations
 
+import math
 from pathlib import Path
 
 import matplotlib
@@ -14,50 +18,89 @@ import matplotlib
 matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
-from matplotlib.colors import TwoSlopeNorm  # noqa: E402
+import shapely  # noqa: E402
+from matplotlib.colors import Normalize, TwoSlopeNorm  # noqa: E402
+from matplotlib.lines import Line2D  # noqa: E402
 from matplotlib.tri import Triangulation  # noqa: E402
+from shapely.geometry import LineString  # noqa: E402
 
 from .case import Case  # noqa: E402
-from .level import Level  # noqa: E402
-from .plane import domain_polygon  # noqa: E402
+from .level import Level, excluded_zones  # noqa: E402
+from .plane import cut_strips, domain_polygon  # noqa: E402
 from .results import CutResult  # noqa: E402
 
-__all__ = ["contour_figure", "profile_figure", "write_beam_figures", "DIVERGING", "SEQUENTIAL"]
+__all__ = ["contour_figure", "profile_figure", "write_beam_figures", "number", "DIVERGING",
+           "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
 
 DIVERGING = "coolwarm"
 SEQUENTIAL = "cividis"
 INK = "#222222"
+SUPPORT_COLOUR = "#1b7837"
+LOAD_COLOUR = "#762a83"
+FE_COLOUR = "#b2182b"
+HAND_COLOUR = "#2166ac"
+QUANTITIES = {"txy": "shear stress τxy", "von_mises": "von Mises stress"}
 
 
-def _outline(ax, case: Case) -> None:
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+def number(v: float, digits: int = 4) -> str:
+    """`v` to `digits` significant figures, without an exponent between 1e-3 and 1e7."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    if v == 0:
+        return "0"
+    mag = math.floor(math.log10(abs(v)))
+    if -3 <= mag < 7:
+        return f"{v:.{max(0, digits - 1 - mag)}f}"
+    return f"{v:.{digits - 1}e}"
+
+
+def _outline(ax, dom) -> None:
     for ring in [dom.exterior, *dom.interiors]:
         x, y = ring.xy
-        ax.plot(x, y, color=INK, lw=0.8)
+        ax.plot(x, y, color=INK, lw=0.8, zorder=4)
 
 
-def _patches(ax, case: Case, level: Level) -> None:
+def _patches(ax, case: Case, level: Level, span: float) -> list[tuple[float, float]]:
+    """Supports (green) and loads (purple, arrow with its resultant); returns arrow tails."""
+    tails = []
     for p in level.mm.supports:
         if p.point is not None:
-            ax.plot(*p.point, marker="^", color="#1b7837", ms=8, zorder=5)
+            ax.plot(*p.point, marker="^", color=SUPPORT_COLOUR, ms=9, zorder=6, clip_on=False)
         for a, b in p.segments:
-            ax.plot([a[0], b[0]], [a[1], b[1]], color="#1b7837", lw=4, alpha=0.8,
-                    solid_capstyle="butt", zorder=5)
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
-    span = max(dom.bounds[2] - dom.bounds[0], dom.bounds[3] - dom.bounds[1])
+            ax.plot([a[0], b[0]], [a[1], b[1]], color=SUPPORT_COLOUR, lw=5, alpha=0.85,
+                    solid_capstyle="butt", zorder=5, clip_on=False)
     for p, ld in zip(level.mm.loads, case.loads, strict=True):
         if p.hole is not None:
-            h = case.geometry.holes[p.hole]
-            x, y = h.center
+            x, y = case.geometry.holes[p.hole].center
         else:
             x, y = p.centroid
             for a, b in p.segments:
-                ax.plot([a[0], b[0]], [a[1], b[1]], color="#762a83", lw=4, alpha=0.8,
-                        solid_capstyle="butt", zorder=5)
+                ax.plot([a[0], b[0]], [a[1], b[1]], color=LOAD_COLOUR, lw=5, alpha=0.85,
+                        solid_capstyle="butt", zorder=5, clip_on=False)
         F = np.asarray(ld.force, float)
         d = F / max(np.hypot(*F), 1e-300) * 0.12 * span
-        ax.annotate("", xy=(x, y), xytext=(x - d[0], y - d[1]), zorder=6,
-                    arrowprops={"arrowstyle": "-|>", "color": "#762a83", "lw": 1.8})
+        tail = (x - d[0], y - d[1])
+        tails.append(tail)
+        ax.annotate("", xy=(x, y), xytext=tail, zorder=7, annotation_clip=False,
+                    arrowprops={"arrowstyle": "-|>", "color": LOAD_COLOUR, "lw": 2.0})
+        ax.text(tail[0], tail[1], f" {number(float(np.hypot(*F)))} {case.units.force}",
+                color=LOAD_COLOUR, fontsize=8, ha="left",
+                va="bottom" if d[1] <= 0 else "top", zorder=7)
+    return tails
+
+
+def _cut_lines(ax, dom, cuts: list[CutResult], colour: str) -> None:
+    """Each cut drawn over the material only, labelled below the member."""
+    x0, y0, x1, y1 = dom.bounds
+    for c in cuts:
+        line = LineString([(c.x, y0 - 1.0), (c.x, y1 + 1.0)])
+        for piece in shapely.get_parts(dom.intersection(line)):
+            if piece.geom_type == "LineString" and piece.length > 0:
+                ys = [q[1] for q in piece.coords]
+                ax.plot([c.x, c.x], [min(ys), max(ys)], color=colour, lw=0.9, ls=(0, (4, 3)),
+                        zorder=4)
+        ax.text(c.x, y0 - 0.015 * (y1 - y0), f"{c.x:g}", ha="center", va="top", fontsize=7,
+                color=INK)
 
 
 def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: str,
@@ -68,64 +111,139 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
     vals = f.nodal[quantity]
     S, L = case.units.stress, case.units.length
     dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
-    w = dom.bounds[2] - dom.bounds[0]
-    h = dom.bounds[3] - dom.bounds[1]
-    fig, ax = plt.subplots(figsize=(8.0, max(2.8, min(7.0, 8.0 * h / w + 1.2))))
+    x0, y0, x1, y1 = dom.bounds
+    w, h = x1 - x0, y1 - y0
+    zones = excluded_zones(case, level.mm.supports, level.mm.loads)
+    keep = np.ones(f.p.shape[1], bool)
+    for z in zones:
+        keep &= np.hypot(f.p[0] - z.at[0], f.p[1] - z.at[1]) > z.radius
+    mag = np.abs(vals)
+    ipk = int(np.argmax(np.where(keep, mag, -np.inf))) if keep.any() else int(np.argmax(mag))
+    lim = float(mag[ipk]) or float(mag.max()) or 1.0
+    clipped = bool(mag.max() > lim * (1 + 1e-9))
+    fig_h = max(3.6, min(8.0, 7.2 * h / w + 2.0))
+    fig, ax = plt.subplots(figsize=(8.0, fig_h))
+    label = f"{QUANTITIES[quantity]} [{S}]"
     if quantity == "txy":
-        lim = float(np.abs(vals).max()) or 1.0
         im = ax.tripcolor(tri, vals, shading="gouraud", cmap=DIVERGING,
                           norm=TwoSlopeNorm(0.0, -lim, lim))
-        label = f"shear stress τxy [{S}]"
+        cut_colour = INK
+        extend = "both" if clipped else "neither"
     else:
-        im = ax.tripcolor(tri, vals, shading="gouraud", cmap=SEQUENTIAL)
-        label = f"von Mises stress [{S}]"
-    _outline(ax, case)
-    for c in cuts:
-        ys = c.profile.y
-        ax.plot([c.x, c.x], [min(ys), max(ys)], color=INK, lw=0.9, ls=(0, (4, 3)))
-        ax.text(c.x, max(ys), f" {c.x:g}", rotation=90, va="bottom", ha="center", fontsize=7,
-                color=INK)
-    _patches(ax, case, level)
+        im = ax.tripcolor(tri, vals, shading="gouraud", cmap=SEQUENTIAL,
+                          norm=Normalize(0.0, lim))
+        cut_colour = "#f2f2f2"
+        extend = "max" if clipped else "neither"
+    _outline(ax, dom)
+    _cut_lines(ax, dom, cuts, cut_colour)
+    for z in zones:  # only the part of each zone inside the member
+        ring = shapely.Point(z.at).buffer(z.radius, quad_segs=32).exterior
+        for piece in shapely.get_parts(ring.intersection(dom)):
+            if piece.geom_type == "LineString":
+                ax.plot(*piece.xy, ls=":", lw=1.0, color=cut_colour, zorder=4)
+    span = max(w, h)
+    tails = _patches(ax, case, level, span)
+    px, py = f.p[0, ipk], f.p[1, ipk]
+    ax.plot(px, py, marker="o", ms=7, mfc="none", mec=INK, mew=1.5, zorder=8)
+    peak_name = "max |τxy|" if quantity == "txy" else "max"
+    ax.annotate(f"{peak_name} {number(lim)} {S}", (px, py), xytext=(8, 8),
+                textcoords="offset points", fontsize=8, color=INK, zorder=8,
+                bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": "none", "alpha": 0.8})
+    ty = [t[1] for t in tails]
+    ax.set_xlim(x0 - 0.04 * span, x1 + 0.04 * span)
+    ax.set_ylim(min([y0 - 0.08 * h, *ty]) - 0.02 * span, max([y1 + 0.03 * h, *ty]) + 0.04 * span)
     ax.set_aspect("equal")
     ax.set_xlabel(f"x [{L}]")
     ax.set_ylabel(f"y [{L}]")
-    ax.set_title(f"{case.title} — {label.split(' [')[0]}", loc="left", fontsize=10)
+    ax.set_title(f"{QUANTITIES[quantity][0].upper()}{QUANTITIES[quantity][1:]}, finest mesh "
+                 f"(element size {level.size:g} {L})", loc="left", fontsize=11,
+                 fontweight="bold")
     for side in ("top", "right"):
         ax.spines[side].set_visible(False)
-    cb = fig.colorbar(im, ax=ax, shrink=0.85, pad=0.02)
+    cb = fig.colorbar(im, ax=ax, shrink=0.85, pad=0.02, extend=extend)
     cb.set_label(label)
-    fig.tight_layout()
+    handles = [Line2D([], [], color=SUPPORT_COLOUR, lw=5, label="support"),
+               Line2D([], [], color=LOAD_COLOUR, lw=5, label="load"),
+               Line2D([], [], color=INK, lw=0.9, ls=(0, (4, 3)), label=f"cut (x in {L})"),
+               Line2D([], [], marker="o", mfc="none", mec=INK, ls="none", label="peak")]
+    if zones:
+        handles.append(Line2D([], [], color=INK, ls=":", label="excluded zone"))
+    fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.03),
+               ncol=len(handles), frameon=False, fontsize=8)
+    note = "peak and colour scale: largest value outside the excluded zones"
+    if clipped:
+        note += " (the arrow on the colour bar: larger values inside them)"
+    fig.text(0.5, 0.01, note, ha="center", va="bottom", fontsize=7, color="#555555")
+    fig.tight_layout(rect=(0, 0.07, 1, 1))
     fig.savefig(path, dpi=150)
     plt.close(fig)
     return path
+
+
+def _per_strip(y: np.ndarray, values: list[float], strips) -> list[tuple[np.ndarray, ...]]:
+    """Split a profile at the gaps between material strips (a line never bridges a hole)."""
+    v = np.asarray(values, float)
+    out = []
+    edges = [(s.y0, s.y1) for s in strips] or [(y.min(), y.max())]
+    # merge strips that touch (a change of thickness is no gap)
+    merged: list[list[float]] = []
+    for a, b in edges:
+        if merged and a - merged[-1][1] <= 1e-9 * (1 + abs(a)):
+            merged[-1][1] = b
+        else:
+            merged.append([a, b])
+    for a, b in merged:
+        m = (y >= a - 1e-9 * (1 + abs(a))) & (y <= b + 1e-9 * (1 + abs(b)))
+        if m.any():
+            out.append((y[m], v[m]))
+    return out, merged
 
 
 def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
     """tau(y) FE vs hand at one cut, and sigma_x beside it."""
     S, L = case.units.stress, case.units.length
     y = np.asarray(cut.profile.y)
-    fig, (a1, a2) = plt.subplots(1, 2, figsize=(7.5, 4.0), sharey=True)
-    a1.plot(cut.profile.tau_fe, y, color="#b2182b", lw=1.8, label="FE")
-    a1.plot(cut.profile.tau_hand, y, color="#2166ac", lw=1.4, ls="--",
-            label="shear formula VQ/(Ib)")
-    if case.check.method != "shear-formula":
-        sign = np.sign(np.mean(cut.profile.tau_fe)) or 1.0
-        a1.axvline(sign * cut.tau_max_hand, color="#4d4d4d", lw=1.0, ls=":",
-                   label=f"{case.check.method} value")
-    a1.set_xlabel(f"τxy [{S}]")
-    a1.set_ylabel(f"y [{L}]")
-    ratio = "n/a (no hand shear)" if cut.ratio is None else f"{cut.ratio:.3f}"
-    a1.set_title(f"x = {cut.x:g} {L}: FE/hand {ratio}", loc="left", fontsize=10)
-    a1.legend(fontsize=8, frameon=False)
-    a2.plot(cut.profile.sigma_x_fe, y, color="#b2182b", lw=1.8, label="FE")
-    a2.plot(cut.profile.sigma_x_hand, y, color="#2166ac", lw=1.4, ls="--", label="N/A + My/I")
-    a2.set_xlabel(f"σx [{S}]")
-    a2.legend(fontsize=8, frameon=False)
-    for a in (a1, a2):
-        a.axvline(0.0, color="#bbbbbb", lw=0.6)
-        a.grid(alpha=0.25)
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    strips = cut_strips(case.geometry, cut.x, case.material.thickness, dom)  # type: ignore
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(8.0, 4.4), sharey=True)
+    panels = ((a1, cut.profile.tau_fe, cut.profile.tau_hand, "VQ/(Ib)"),
+              (a2, cut.profile.sigma_x_fe, cut.profile.sigma_x_hand, "N/A + M(y − ȳ)/I"))
+    for ax, fe, hand, hand_label in panels:
+        pieces_fe, merged = _per_strip(y, fe, strips)
+        pieces_hd, _ = _per_strip(y, hand, strips)
+        for k, ((yy, vf), (_, vh)) in enumerate(zip(pieces_fe, pieces_hd, strict=True)):
+            ax.plot(vf, yy, color=FE_COLOUR, lw=1.8, label="FE" if k == 0 else None)
+            ax.plot(vh, yy, color=HAND_COLOUR, lw=1.4, ls="--",
+                    label=f"hand: {hand_label}" if k == 0 else None)
+        for (_, b), (a, _) in zip(merged[:-1], merged[1:], strict=True):
+            ax.axhspan(b, a, color="#e6e6e6", zorder=0)
+            ax.text(0.98, 0.5 * (a + b), "no material", transform=ax.get_yaxis_transform(),
+                    ha="right", va="center", fontsize=7, color="#666666")
+        ax.axvline(0.0, color="#bbbbbb", lw=0.6)
+        ax.grid(alpha=0.25)
         for side in ("top", "right"):
-            a.spines[side].set_visible(False)
+            ax.spines[side].set_visible(False)
+    tau_fe = np.asarray(cut.profile.tau_fe)
+    i = int(np.argmax(np.abs(tau_fe)))
+    a1.plot(tau_fe[i], y[i], "o", color=FE_COLOUR, ms=5)
+    a1.annotate(f"|τ| = {number(cut.tau_max_fe)} {S}", (tau_fe[i], y[i]), xytext=(6, 4),
+                textcoords="offset points", fontsize=8, color=FE_COLOUR)
+    sign = float(np.sign(tau_fe[i])) or 1.0
+    a1.axvline(sign * cut.tau_avg_hand, color="#4d4d4d", lw=1.0, ls=":",
+               label=f"hand: V/A = {number(cut.tau_avg_hand)} {S}")
+    if case.check.method not in ("shear-formula", "average"):
+        a1.axvline(sign * cut.tau_max_hand, color="#4d4d4d", lw=1.0, ls="-.",
+                   label=f"hand: {case.check.method} {number(cut.tau_max_hand)} {S}")
+    a1.set_xlabel(f"shear stress τxy [{S}]")
+    a1.set_ylabel(f"y [{L}]")
+    a2.set_xlabel(f"normal stress σx [{S}]")
+    ratio = ("no hand shear at this cut" if cut.ratio is None else
+             f"FE {number(cut.tau_max_fe)} vs hand {number(cut.tau_max_hand)} {S}, "
+             f"ratio {cut.ratio:.3f}")
+    fig.suptitle(f"Cut at x = {cut.x:g} {L}: {ratio}", x=0.01, ha="left", fontsize=11,
+                 fontweight="bold")
+    a1.legend(fontsize=7.5, frameon=False, loc="best")
+    a2.legend(fontsize=7.5, frameon=False, loc="best")
     fig.tight_layout()
     fig.savefig(path, dpi=150)
     plt.close(fig)

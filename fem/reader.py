@@ -2,18 +2,22 @@
 
 Every key read goes through `Table.take`, which checks type and range and raises a
 `CaseError` naming the file and the dotted key path. `Table.close` refuses any key that was
-not read, so a typo never passes silently.
+not read, so a typo never passes silently; a missing key names any unread key that looks
+like a misspelling of it. `key_lines` maps key paths to the line they are written on, so
+that messages can point at the line.
 """
 
 from __future__ import annotations
 
+import difflib
 import math
+import re
 from collections.abc import Callable, Sequence
 from typing import Any
 
 from .errors import CaseError
 
-__all__ = ["Table", "REQUIRED"]
+__all__ = ["Table", "REQUIRED", "as_point", "key_lines", "line_of"]
 
 REQUIRED = object()
 
@@ -46,7 +50,7 @@ class Table:
         self.used.add(name)
         if name not in self.data:
             if default is REQUIRED:
-                raise self.error(name, "is required but missing")
+                raise self.error(name, "is required but missing" + self._unread_hint(name))
             return default
         return self.data[name]
 
@@ -114,7 +118,18 @@ class Table:
         extra = sorted(set(self.data) - self.used)
         if extra:
             known = ", ".join(sorted(self.used)) or "none"
-            raise self.error(extra[0], f"unknown key (known here: {known})")
+            near = difflib.get_close_matches(extra[0], sorted(self.used), n=1, cutoff=0.6)
+            hint = f"did you mean {near[0]!r}? " if near else ""
+            raise self.error(extra[0], f"unknown key ({hint}known here: {known})")
+
+    def _unread_hint(self, name: str) -> str:
+        unread = sorted(k for k in self.data if k not in self.used)
+        if not unread:
+            return ""
+        near = difflib.get_close_matches(name, unread, n=1, cutoff=0.6)
+        if near:
+            return f" ({near[0]!r} is given here: a misspelling of {name!r}?)"
+        return f" (given here but not known: {', '.join(unread)})"
 
 
 def as_point(v: Any, file: str, key: str) -> tuple[float, float]:
@@ -142,3 +157,58 @@ def _kind(v: Any) -> str:
 def _show(v: Any) -> str:
     s = repr(v)
     return s if len(s) <= 40 else s[:37] + "..."
+
+
+_HEADER = re.compile(r"^\s*(\[\[?)\s*([A-Za-z0-9_\-\.\" ]+?)\s*\]\]?\s*(#.*)?$")
+_ASSIGN = re.compile(r"^\s*([A-Za-z0-9_\-\.\" ]+?)\s*=")
+
+
+def key_lines(text: str) -> dict[str, int]:
+    """Map dotted key paths (arrays of tables numbered from 0) to their 1-based line.
+
+    A light scan of table headers and `key =` lines: enough to point at the line of a
+    bad value or table; anything it cannot follow is simply left out.
+    """
+    lines: dict[str, int] = {}
+    count: dict[str, int] = {}
+    current = ""
+    depth = 0  # open brackets of a value running over several lines
+    for n, line in enumerate(text.splitlines(), start=1):
+        code = re.sub(r'"[^"]*"|\'[^\']*\'', "", line).split("#")[0]
+        if depth > 0:
+            depth = max(0, depth + code.count("[") - code.count("]"))
+            continue
+        m = _HEADER.match(line)
+        if m:
+            parts = [p.strip().strip('"') for p in m.group(2).split(".")]
+            path = ""
+            for i, part in enumerate(parts):
+                path = f"{path}.{part}" if path else part
+                if i < len(parts) - 1 and path in count:
+                    path = f"{path}.{count[path] - 1}"  # inside the latest array element
+            if m.group(1) == "[[":
+                lines.setdefault(path, n)
+                count[path] = count.get(path, 0) + 1
+                path = f"{path}.{count[path] - 1}"
+            current = path
+            lines.setdefault(current, n)
+            continue
+        m = _ASSIGN.match(line)
+        if m and not line.lstrip().startswith("#"):
+            key = ".".join(p.strip().strip('"') for p in m.group(1).split("."))
+            lines.setdefault(f"{current}.{key}" if current else key, n)
+            value = code.split("=", 1)[1] if "=" in code else ""
+            depth = max(0, value.count("[") - value.count("]"))
+    return lines
+
+
+def line_of(text: str, key: str) -> int | None:
+    """The line of `key`, or of the nearest enclosing table written in the text."""
+    lines = key_lines(text)
+    parts = key.split(".")
+    while parts:
+        k = ".".join(parts)
+        if k in lines:
+            return lines[k]
+        parts.pop()
+    return None

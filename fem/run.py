@@ -9,16 +9,19 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
 from .case import Case
 from .compare import beam_findings, cut_results, peak_result, verdict
+from .concentration import Concentration, concentration_findings, concentrations
 from .convergence import GCI_LIMIT, gci_study, is_singular
+from .errors import SolveError
 from .level import Level, excluded_zones, run_level
-from .mesh import level_size
+from .mesh import estimate_dofs, level_size
 from .plane import domain_polygon, reentrant_corners
+from .progress import Progress, as_progress
 from .results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
 
 __all__ = ["BeamRun", "check_beam", "GCI_LIMIT", "SETTLED"]
@@ -31,6 +34,7 @@ class BeamRun:
     result: Result
     finest: Level
     levels: list[Level]
+    concentrations: list[Concentration] = field(default_factory=list)
 
 
 def _study(sizes: list[float], values: list[float]) -> dict:
@@ -59,15 +63,26 @@ def _corner_peaks(level: Level, corners: list, radius: float) -> list[float]:
     return out
 
 
-def check_beam(case: Case, progress: Callable[[str], None] | None = None) -> BeamRun:
+def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = None) -> BeamRun:
     levels: list[Level] = []
     xs = None
-    for k in range(case.mesh.levels):
-        if progress:
-            progress(f"level {k + 1}/{case.mesh.levels}: size {level_size(case, k):g}")
-        lv = run_level(case, level_size(case, k), xs)
-        xs = [c.x for c in lv.cuts_fe]
-        levels.append(lv)
+    n = case.mesh.levels
+    work = [estimate_dofs(case, level_size(case, k)) for k in range(n)]
+    prog = as_progress(progress)
+    prog.start(sum(work))
+    try:
+        for k in range(n):
+            prog.step(f"level {k + 1}/{n}: size {level_size(case, k):g} {case.units.length}",
+                      work[k])
+            lv = run_level(case, level_size(case, k), xs)
+            if not lv.cuts_fe:
+                raise SolveError("no cut of the member carries shear: the loads go straight "
+                                 "into the supports, so there is nothing to compare; move a "
+                                 "load or a support, or name the cuts in check.cuts")
+            xs = [c.x for c in lv.cuts_fe]
+            levels.append(lv)
+    finally:
+        prog.close()
     fin = levels[-1]
     cuts = cut_results(fin)
     peak = peak_result(fin)
@@ -83,6 +98,9 @@ def check_beam(case: Case, progress: Callable[[str], None] | None = None) -> Bea
                   for i, c in enumerate(cuts)}
     for name in ("tau", "von_mises", "principal"):
         quantities[f"peak {name}"] = _study(sizes, [lv.peaks[name][0] for lv in levels])
+    conc = concentrations(case, levels, zones, _study)  # holes, fillets, sharp corners
+    findings += concentration_findings(case, conc)
+    quantities.update({c.feature.key: c.study for c in conc if c.study})
     corners = reentrant_corners(dom)
     singular_at = []
     r_corner = 0.05 * depth
@@ -122,7 +140,7 @@ def check_beam(case: Case, progress: Callable[[str], None] | None = None) -> Bea
                                     f"converged (GCI {'n/a' if gci is None else f'{gci:.1%}'}, "
                                     f"limit {GCI_LIMIT:.0%}); refine the mesh.")))
     v = verdict(case, findings, converged, singular_governs)
-    definite_excess = any(f.kind in ("short-beam", "shear-excess", "hand-value")
+    definite_excess = any(f.kind in ("short-beam", "shear-excess", "hand-value", "concentration")
                           and f.ratio is not None and f.ratio > 1 + case.check.tolerance
                           for f in findings)
     if v == "inconclusive" and definite_excess and (converged or len(levels) == 1):
@@ -146,4 +164,4 @@ def check_beam(case: Case, progress: Callable[[str], None] | None = None) -> Bea
                                 relative_error=sol.equilibrium_error),
         cuts=cuts, peak=peak, convergence=conv, verdict=v, findings=findings, timings=timings,
         hand_method=case.check.method, tolerance=case.check.tolerance)
-    return BeamRun(result=result, finest=fin, levels=levels)
+    return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)

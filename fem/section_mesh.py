@@ -435,7 +435,7 @@ def mesh_section(geometry: SectionGeometry, size: float, order: int = 2,
         xy, t, lines = _read(surface, order, groups)
     p, t, lines = _compact(xy, t, lines)
     nv = int(t[:3].max()) + 1
-    finder = MeshTri1(np.ascontiguousarray(p[:nv].T), np.ascontiguousarray(t[:3]))
+    finder = MeshTri1(np.ascontiguousarray(p[:nv].T), np.ascontiguousarray(t[:3]), sort_t=False)
     mesh = MeshTri2(np.ascontiguousarray(p.T), t) if order == 2 else finder
     boundaries = {k: _facets_of(finder, v) for k, v in lines.items()}
     allf = finder.boundary_facets()

@@ -22,9 +22,11 @@ from skfem.helpers import ddot, sym_grad, trace
 from .case import Case, Load
 from .errors import SolveError
 from .mesh import MemberMesh
-from .plane import Patch
+from .plane import Patch, check_mechanism
 
-__all__ = ["Solution", "lame", "solve_member", "check_mechanism"]
+__all__ = ["Solution", "lame", "solve_member", "check_mechanism", "RESIDUAL_LIMIT"]
+
+RESIDUAL_LIMIT = 1e-6  # |K u - f| / |f| on the free dofs above this: the solve is not trusted
 
 
 @dataclass
@@ -70,33 +72,6 @@ def lame(E: float, nu: float, model: str) -> tuple[float, float]:
 def _stiffness(u, v, w):
     eu, ev = sym_grad(u), sym_grad(v)
     return w.thk * (2.0 * w.mu * ddot(eu, ev) + w.lam * trace(eu) * trace(ev))
-
-
-def check_mechanism(case: Case, supports: list[Patch]) -> None:
-    """Refuse supports that leave rigid motion in x, y or rotation free."""
-    xs, ys = [], []  # points restrained in x (their y matters) and in y (their x matters)
-    for s, patch in zip(case.supports, supports, strict=True):
-        pts = patch.ends if patch.point is None else [patch.point]
-        if "x" in s.fix:
-            xs += pts
-        if "y" in s.fix:
-            ys += pts
-    free = []
-    if not xs:
-        free.append("x (no support fixes x)")
-    if not ys:
-        free.append("y (no support fixes y)")
-    if xs and ys:
-        spread_x = max(p[1] for p in xs) - min(p[1] for p in xs)
-        spread_y = max(p[0] for p in ys) - min(p[0] for p in ys)
-        if spread_x < 1e-9 and spread_y < 1e-9:
-            free.append("rotation (all restraints pass through one point)")
-    if free:
-        from .errors import CaseError
-
-        raise CaseError(case.file, "supports",
-                        f"the supports cannot stop rigid motion in {' and '.join(free)}; "
-                        "add or widen a support")
 
 
 def _load_vector(basis: Basis, mm: MemberMesh, load: Load, patch: Patch,
@@ -193,6 +168,13 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
                          "leave part of the member free to move") from None
     if not np.all(np.isfinite(u)):
         raise SolveError("the solve gave non-finite displacements; check E, nu and supports")
+    residual = float(np.linalg.norm(Kff @ u[free] - f[free]) /
+                     max(float(np.linalg.norm(f[free])), 1e-300))
+    if not residual <= RESIDUAL_LIMIT:
+        raise SolveError(f"the stiffness matrix is singular or nearly so: the solution leaves a "
+                         f"relative residual of {residual:.2g} (limit {RESIDUAL_LIMIT:g}); the "
+                         "supports may leave part of the member free to move, or the "
+                         "thicknesses and E span too many orders of magnitude")
     t2 = time.perf_counter()
     r = K @ u - f
     reactions: dict[str, tuple[float, float]] = {}
