@@ -38,7 +38,7 @@ import numpy as np
 from classical.sections import Outline, chord_segments, polygon_properties
 from classical.shear import average_shear, direct_shear, max_shear_formula, shear_profile
 
-from .section_mesh import mesh_section, section_geometry
+from .section_mesh import mesh_section, section_shape
 from .section_solve import SectionSolution, solve_section
 
 __all__ = ["CutProfile", "Finding", "MeshInfo", "SectionCheck", "check_section", "METHODS"]
@@ -180,8 +180,10 @@ def _cut(sol: SectionSolution, o_na: Outline, frame: tuple, v_eff: float, eta: f
     xs = np.concatenate(xi)
     pts = c + xs[:, None] * d + eta * n
     tau = sol.probe(pts, *V) @ n
-    mean = sum(np.trapezoid(tau[k0:k0 + len(x)], x)
-               for k0, x in zip(np.cumsum([0] + [len(x) for x in xi[:-1]]), xi, strict=True))
+    mean = 0.0  # trapezoidal rule over each chord segment
+    for k0, x in zip(np.cumsum([0] + [len(x) for x in xi[:-1]]), xi, strict=True):
+        t = tau[k0:k0 + len(x)]
+        mean += float(np.sum(0.5 * (t[1:] + t[:-1]) * np.diff(x)))
     hand = shear_profile(o_na, v_eff, [eta])[0]
     return CutProfile(float(eta), tuple(pts[:, 0]), tuple(pts[:, 1]), tuple(xs),
                       tuple(tau), float(hand), float(mean / total))
@@ -218,13 +220,15 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     SectionCheck
         Verdict ``holds`` | ``unsafe`` | ``inconclusive`` (a sharp re-entrant corner, where
         the stress is singular, governs) with findings; one mesh only (a refinement study
-        repeats the call with smaller ``size``).
+        repeats the call with smaller ``size``).  ``tau_max_regular`` is the peak outside
+        discs of radius max(size, 0.05 sqrt(A)) around sharp re-entrant corners; the
+        verdict uses it, ``tau_max_fe`` and ``ratio`` are the peak anywhere.
     """
     if method not in METHODS:
         raise ValueError(f"unknown method {method!r}; valid methods: {', '.join(METHODS)}")
     if Vx == 0.0 and Vy == 0.0:
         raise ValueError("the shear [Vx, Vy] must not be zero")
-    geom = section_geometry(shape, **params)
+    geom = section_shape(shape, **params)
     smesh = mesh_section(geom, size, order)
     sol = solve_section(smesh, nu)
     t0 = time.perf_counter()
@@ -239,9 +243,10 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     k = int(np.argmax(mag))
     peak, at = float(mag[k]), corners[k]
     sharp = geom.sharp_reentrant_corners()
-    regular = np.ones(len(mag), dtype=bool)
+    regular = np.ones(len(mag), dtype=bool)   # outside discs around sharp corners
+    r_ex = max(size, 0.05 * math.sqrt(sol.A))  # fixed with refinement: verdicts stay put
     for q in sharp:
-        regular &= np.linalg.norm(corners - q, axis=1) > size
+        regular &= np.linalg.norm(corners - q, axis=1) > r_ex
     kr = int(np.flatnonzero(regular)[np.argmax(mag[regular])])
     peak_r, at_r = float(mag[kr]), corners[kr]
 
@@ -270,10 +275,13 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     lim = 1.0 + tolerance
     singular = _near(at, sharp, 1e-9 * size + 0.5 * size)
     if singular:
+        kc = int(np.argmin(np.linalg.norm(sharp - at, axis=1)))
+        alpha = float(geom.sharp_reentrant_angles()[kc])
         findings.append(Finding("singular", (float(at[0]), float(at[1])), ratio,
-            f"The FE peak {peak:.4g} sits at a sharp re-entrant corner, where the elastic "
-            f"shear stress is singular (about r^(-1/3) at 270 degrees): it keeps growing as "
-            f"the mesh is refined, so its value here depends on the mesh. Away from the "
+            f"The FE peak {peak:.4g} sits at a sharp re-entrant corner (material angle "
+            f"{math.degrees(alpha):.0f} degrees), where the elastic shear stress is singular, "
+            f"growing like r^({math.pi / alpha - 1:.3f}) towards the corner: it keeps growing "
+            f"as the mesh is refined, so its value here depends on the mesh. Away from the "
             f"corner the peak is {peak_r:.4g} ({ratio_r:.3f} x the hand value). A root "
             f"radius gives a finite peak."))
     na_tau = np.asarray(na.tau_fe)
@@ -289,9 +297,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         findings.append(Finding("edge-excess", p_end, edge_ratio,
             f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
             f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
-            f"the formula assumes the stress uniform across the width, which fails for wide "
-            f"sections (Poisson effect; for a square about 1.13 x, for width = 4 x depth "
-            f"about 2 x)."))
+            f"the formula gives the average along the cut and assumes the stress uniform "
+            f"across the width, which fails for wide chords (Poisson effect: for a square "
+            f"about 1.13 x, for width = 4 x depth about 2 x, Timoshenko & Goodier)."))
     fillets = geom.filleted_reentrant_corners()
     r_max = max((float(r.radii.max()) for r in geom.rings if r.circle is None and r.radii.size),
                 default=0.0)
@@ -305,7 +313,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     elif ratio_r > lim and not (edge_ratio > lim and abs((at_r - sol.centroid) @ n) < size):
         findings.append(Finding("method-excess", (float(at_r[0]), float(at_r[1])), ratio_r,
             f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio_r:.3f} x "
-            f"the {method} value {hand:.4g}."))
+            f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
+            f"over the whole section), and the elastic stress here is not uniform across "
+            f"the cuts through this point."))
     user_ratio = peak_r / hand_value if hand_value else None
     if user_ratio is not None and user_ratio > lim:
         findings.append(Finding("hand-value", (float(at_r[0]), float(at_r[1])), user_ratio,

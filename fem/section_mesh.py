@@ -34,12 +34,12 @@ from classical.sections import Outline, section_outline
 
 __all__ = [
     "Ring",
-    "SectionGeometry",
+    "SectionShape",
     "SectionMesh",
     "SHAPE_BUILDERS",
     "mesh_section",
     "register_shape",
-    "section_geometry",
+    "section_shape",
 ]
 
 _GMSH_LOCK = threading.Lock()
@@ -56,6 +56,16 @@ class Ring:
     points: np.ndarray = field(default_factory=lambda: np.zeros((0, 2)))
     radii: np.ndarray = field(default_factory=lambda: np.zeros(0))
     circle: tuple[float, float, float] | None = None
+
+    def material_angles(self) -> np.ndarray:
+        """Angle of material at each vertex [rad] (pi - the signed turn; > pi re-entrant)."""
+        if self.circle is not None:
+            return np.zeros(0)
+        p = self.points
+        d_in, d_out = p - np.roll(p, 1, axis=0), np.roll(p, -1, axis=0) - p
+        cross = d_in[:, 0] * d_out[:, 1] - d_in[:, 1] * d_out[:, 0]
+        dot = np.sum(d_in * d_out, axis=1)
+        return np.pi - np.arctan2(cross, dot)
 
     def reentrant(self) -> np.ndarray:
         """Boolean per vertex: material angle above 180 degrees (right turn)."""
@@ -85,7 +95,7 @@ def _circle_ring(xc: float, yc: float, r: float) -> Ring:
 
 
 @dataclass(frozen=True, eq=False)
-class SectionGeometry:
+class SectionShape:
     """A section shape with exact arcs, plus the polygon outline the hand side uses."""
 
     shape: str
@@ -102,6 +112,12 @@ class SectionGeometry:
         """(k, 2) coordinates of re-entrant vertices without a fillet."""
         pts = [r.points[r.reentrant() & (r.radii == 0.0)] for r in self.rings if r.circle is None]
         return np.vstack(pts) if pts else np.zeros((0, 2))
+
+    def sharp_reentrant_angles(self) -> np.ndarray:
+        """Material angles [rad] at :meth:`sharp_reentrant_corners`, same order."""
+        a = [r.material_angles()[r.reentrant() & (r.radii == 0.0)] for r in self.rings
+             if r.circle is None]
+        return np.concatenate(a) if a else np.zeros(0)
 
     def filleted_reentrant_corners(self) -> np.ndarray:
         """(k, 2) coordinates of re-entrant vertices with a fillet (the sharp corner point)."""
@@ -188,7 +204,7 @@ def _polygon(points: Sequence[Sequence[float]],
     return _polygon_ring(points), tuple(_polygon_ring(h, hole=True) for h in holes)
 
 
-def section_geometry(shape: str, **params: object) -> SectionGeometry:
+def section_shape(shape: str, **params: object) -> SectionShape:
     """Build the exact geometry of a named shape (parameters as in the case contract).
 
     The parameters are validated by :func:`classical.sections.section_outline` (same
@@ -209,14 +225,14 @@ def section_geometry(shape: str, **params: object) -> SectionGeometry:
                              f"parameters: {', '.join(accepted)}")
     outline = section_outline(shape, **params)
     outer, holes = SHAPE_BUILDERS[shape](**params)
-    return SectionGeometry(shape, dict(params), outer, holes, outline)
+    return SectionShape(shape, dict(params), outer, holes, outline)
 
 
 @dataclass(eq=False)
 class SectionMesh:
     """A meshed section: the scikit-fem mesh and what the solver and plots need."""
 
-    geometry: SectionGeometry
+    geometry: SectionShape
     mesh: MeshTri1 | MeshTri2
     finder: MeshTri1                   # straight-sided twin on the corner vertices
     order: int
@@ -384,14 +400,14 @@ def _facets_of(mesh: MeshTri1, pairs: np.ndarray) -> np.ndarray:
     return np.unique(pos)
 
 
-def mesh_section(geometry: SectionGeometry, size: float, order: int = 2,
+def mesh_section(geometry: SectionShape, size: float, order: int = 2,
                  corner_size: float | None = None) -> SectionMesh:
     """Mesh a section with gmsh (OCC kernel) and read it straight into scikit-fem.
 
     Parameters
     ----------
     geometry
-        From :func:`section_geometry`.
+        From :func:`section_shape`.
     size
         Target element size away from refinements [length].
     order

@@ -20,7 +20,7 @@ from classical.sections import (
     tee_properties,
     tube_properties,
 )
-from fem.section_mesh import mesh_section, section_geometry
+from fem.section_mesh import mesh_section, section_shape
 
 
 def _moments(sm) -> tuple[float, float, float, float, float, float]:
@@ -51,7 +51,7 @@ def test_straight_shapes_match_closed_forms(shape, params, closed):
     """Straight-sided shapes: A, centroid, Ixx, Iyy, Ixy of the mesh equal the composite-
     rectangle closed forms of classical.shapes (same frame) to 1e-10 relative: P2
     quadrature of polynomials on straight triangles is exact."""
-    sm = mesh_section(section_geometry(shape, **params), size=5.0)
+    sm = mesh_section(section_shape(shape, **params), size=5.0)
     A, cx, cy, ixx, iyy, ixy = _moments(sm)
     p = closed(**params)
     scale = math.sqrt(p.A)
@@ -70,18 +70,18 @@ def test_true_arcs_circle_and_tube():
     (area error 8e-4 vs 1e-7 on an ellipse, FEM-NOTES)."""
     for shape, params, closed in [("circle", dict(diameter=10.0), circle_properties),
                                   ("tube", dict(diameter=50.0, wall=3.0), tube_properties)]:
-        sm = mesh_section(section_geometry(shape, **params), size=params["diameter"] / 12)
+        sm = mesh_section(section_shape(shape, **params), size=params["diameter"] / 12)
         assert isinstance(sm.mesh, MeshTri2)
         A, _, _, ixx, iyy, _ = _moments(sm)
         p = closed(**params)
         assert A == pytest.approx(p.A, rel=1e-5)
         assert ixx == pytest.approx(p.Ixx, rel=1e-5)
         assert iyy == pytest.approx(p.Iyy, rel=1e-5)
-    sm = mesh_section(section_geometry("circle", diameter=10.0), size=1.0)
+    sm = mesh_section(section_shape("circle", diameter=10.0), size=1.0)
     f = sm.boundaries["outer"]
     mids = sm.mesh.doflocs[:, sm.mesh.dofs.facet_dofs[0, f]]
     assert np.allclose(np.hypot(*mids), 5.0, atol=1e-9)
-    lin = mesh_section(section_geometry("circle", diameter=10.0), size=1.0, order=1)
+    lin = mesh_section(section_shape("circle", diameter=10.0), size=1.0, order=1)
     assert isinstance(lin.mesh, MeshTri1)
     quad_err = abs(_moments(sm)[0] / (25 * math.pi) - 1)
     b = Basis(lin.mesh, ElementTriP2())
@@ -97,7 +97,7 @@ def test_root_fillets_match_exact_area_and_polygon_route():
     to 5e-5."""
     params = dict(depth=300.0, flange_width=150.0, flange_thickness=10.7,
                   web_thickness=7.1, root_radius=15.0)
-    geom = section_geometry("i", **params)
+    geom = section_shape("i", **params)
     sm = mesh_section(geom, size=6.0)
     A, cx, cy, ixx, iyy, _ = _moments(sm)
     p = polygon_properties(geom.outline)
@@ -114,12 +114,12 @@ def test_reentrant_corners_found_and_refined():
     """Sharp re-entrant corners: the angle has one at (t, t), a box four (its inner
     corners), a polygon with a square hole four; the mesh at the angle's corner is
     refined to about size/8 (Threshold field), away from it the size is kept."""
-    ang = section_geometry("angle", leg_x=60.0, leg_y=40.0, thickness=6.0)
+    ang = section_shape("angle", leg_x=60.0, leg_y=40.0, thickness=6.0)
     assert np.allclose(ang.sharp_reentrant_corners(), [[6.0, 6.0]])
-    box = section_geometry("box", width=40.0, depth=20.0, wall=2.0)
+    box = section_shape("box", width=40.0, depth=20.0, wall=2.0)
     assert sorted(map(tuple, box.sharp_reentrant_corners())) == sorted(
         [(-18.0, -8.0), (18.0, -8.0), (18.0, 8.0), (-18.0, 8.0)])
-    poly = section_geometry("polygon", points=[[0, 0], [10, 0], [10, 10], [0, 10]],
+    poly = section_shape("polygon", points=[[0, 0], [10, 0], [10, 10], [0, 10]],
                             holes=[[[2, 2], [4, 2], [4, 4], [2, 4]]])
     assert len(poly.sharp_reentrant_corners()) == 4
     sm = mesh_section(ang, size=3.0)
@@ -135,7 +135,7 @@ def test_reentrant_corners_found_and_refined():
 def test_named_boundaries_and_numbering():
     """Physical groups: 'outer' and 'hole-0' are facet sets of the mesh covering every
     boundary facet once; corner vertices are numbered first (0..nv-1)."""
-    sm = mesh_section(section_geometry("tube", diameter=20.0, wall=2.0), size=1.5)
+    sm = mesh_section(section_shape("tube", diameter=20.0, wall=2.0), size=1.5)
     outer, hole = sm.boundaries["outer"], sm.boundaries["hole-0"]
     allf = np.sort(sm.mesh.boundary_facets())
     assert np.array_equal(np.sort(np.concatenate([outer, hole])), allf)
@@ -151,12 +151,12 @@ def test_errors_name_the_problem_and_gmsh_is_released():
     """Bad input raises ValueError naming shape/parameter; gmsh is finalised after a
     failure inside the session and a second user in the same process is refused."""
     with pytest.raises(ValueError, match="valid shapes"):
-        section_geometry("hexagon", side=1.0)
+        section_shape("hexagon", side=1.0)
     with pytest.raises(ValueError, match="no parameter 'radius'"):
-        section_geometry("circle", radius=1.0)
+        section_shape("circle", radius=1.0)
     with pytest.raises(ValueError, match="order"):
-        mesh_section(section_geometry("circle", diameter=1.0), size=0.1, order=3)
-    too_big = section_geometry("polygon", points=[[0, 0], [1, 0], [1, 1]])
+        mesh_section(section_shape("circle", diameter=1.0), size=0.1, order=3)
+    too_big = section_shape("polygon", points=[[0, 0], [1, 0], [1, 1]])
     object.__setattr__(too_big.outer, "radii", np.array([0.0, 5.0, 0.0]))
     with pytest.raises(ValueError, match="does not fit"):
         mesh_section(too_big, size=0.2)
@@ -164,6 +164,6 @@ def test_errors_name_the_problem_and_gmsh_is_released():
     gmsh.initialize(interruptible=False)
     try:
         with pytest.raises(RuntimeError, match="already in use"):
-            mesh_section(section_geometry("circle", diameter=1.0), size=0.2)
+            mesh_section(section_shape("circle", diameter=1.0), size=0.2)
     finally:
         gmsh.finalize()

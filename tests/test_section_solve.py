@@ -8,12 +8,12 @@ import time
 import numpy as np
 import pytest
 
-from fem.section_mesh import mesh_section, section_geometry
+from fem.section_mesh import mesh_section, section_shape
 from fem.section_solve import solve_section
 
 
 def _solve(shape: str, size: float, nu: float, order: int = 2, **params):
-    return solve_section(mesh_section(section_geometry(shape, **params), size, order), nu)
+    return solve_section(mesh_section(section_shape(shape, **params), size, order), nu)
 
 
 def rectangle_na_series(b: float, h: float, nu: float, x: np.ndarray,
@@ -224,7 +224,7 @@ def test_fifty_thousand_dofs_under_two_seconds():
     """Performance: torsion + both flexure problems on a ~50k-dof P2 mesh (rectangle
     40 x 10, size 0.195) take under 2 s of assembly + solve + post on 2 cores (measured
     about 0.8 s; SuperLU with MMD on A^T + A in symmetric mode)."""
-    sm = mesh_section(section_geometry("rectangle", width=40.0, depth=10.0), 0.195)
+    sm = mesh_section(section_shape("rectangle", width=40.0, depth=10.0), 0.195)
     t0 = time.perf_counter()
     sol = solve_section(sm, 0.3)
     elapsed = time.perf_counter() - t0
