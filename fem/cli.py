@@ -127,6 +127,8 @@ def _sweep(args: argparse.Namespace) -> int:
     out = args.out if args.out is not None else Path("out") / f"sweep-{load_case(args.case).name}"
     if args.workers is not None and args.workers < 1:
         raise CaseError("command line", "--workers", f"must be >= 1, got {args.workers}")
+    if args.levels is not None and not 1 <= args.levels <= 8:
+        raise CaseError("command line", "--levels", f"must be 1 to 8, got {args.levels}")
     try:
         rep = run_sweep(args.case, varies, out, workers=args.workers,
                         scheduler=args.scheduler, levels=args.levels, quiet=args.quiet)

@@ -27,11 +27,14 @@ def _r(v: float, n: int = 6) -> float:
 
 def cut_results(level: Level) -> list[CutResult]:
     out = []
+    # hand shear below this share of the largest is round-off (e.g. midspan of a symmetric
+    # beam): no ratio is formed there
+    floor = 1e-9 * max((hd.tau_method for hd in level.cuts_hand), default=0.0)
     for fe, hd in zip(level.cuts_fe, level.cuts_hand, strict=True):
         vm_fe = float(von_mises_plane(fe.sxx, fe.syy, fe.txy).max())
         vm_hand = float(von_mises_plane(hd.sigma_x, 0.0 * hd.sigma_x, hd.tau).max())
         # a cut where the hand side carries no shear (a load-free overhang) has no ratio
-        ratio = fe.tau_max / hd.tau_method if hd.tau_method > 0 else None
+        ratio = fe.tau_max / hd.tau_method if hd.tau_method > floor else None
         out.append(CutResult(
             x=fe.x, V_fe=fe.V, V_hand=hd.V, M_fe=fe.M, M_hand=hd.M,
             tau_max_fe=fe.tau_max, y_at_tau_max_fe=fe.y_at_tau_max,

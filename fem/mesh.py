@@ -23,6 +23,8 @@ from .geometry import build_member, gmsh_session, name_boundaries
 from .plane import Patch, check_mechanism, domain_polygon, patches, reentrant_corners
 from .sizing import estimate_dofs
 
+GRADING = 0.5  # largest growth of element size per unit distance from a refinement
+
 __all__ = ["MemberMesh", "mesh_member", "estimate_dofs", "level_size"]
 
 
@@ -71,10 +73,13 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch]) ->
             f.setNumber(d, "Sampling", 200)
         t = f.add("Threshold")
         f.setNumber(t, "InField", d)
-        f.setNumber(t, "SizeMin", min(fine, size))
+        fine = min(fine, size)
+        f.setNumber(t, "SizeMin", fine)
         f.setNumber(t, "SizeMax", size)
         f.setNumber(t, "DistMin", dmin)
-        f.setNumber(t, "DistMax", dmax)
+        # grade the size at most GRADING per unit distance, so fine spots never sit next to
+        # coarse, badly curved isoparametric elements
+        f.setNumber(t, "DistMax", max(dmax, dmin + (size - fine) / GRADING))
         fields.append(t)
 
     depth = _depth(case)
@@ -151,6 +156,7 @@ def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
             gmsh.model.mesh.generate(2)
             if case.mesh.order == 2:
                 gmsh.model.mesh.setOrder(2)
+                _untangle(size)
         except Exception as exc:
             if type(exc) is not Exception:  # gmsh raises plain Exception; anything else is ours
                 raise
@@ -161,6 +167,24 @@ def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
     mm.supports, mm.loads = sup, lds
     mm.seconds = time.perf_counter() - t0
     return mm
+
+
+def _min_jacobian() -> float:
+    _, tags, _ = gmsh.model.mesh.getElements(2)
+    tags = np.concatenate(tags) if len(tags) else np.zeros(0)
+    return float(gmsh.model.mesh.getElementQualities(tags, "minSJ").min()) if len(tags) else 1.0
+
+
+def _untangle(size: float) -> None:
+    """Curved P2 elements next to small holes or fillets can fold over (negative Jacobian);
+    gmsh's high-order optimisation unfolds them. Only a folded mesh is touched."""
+    if _min_jacobian() > 0:
+        return
+    gmsh.model.mesh.optimize("HighOrder")
+    if _min_jacobian() <= 0:
+        raise SolveError(f"the curved mesh at size {size:g} has folded elements next to a "
+                         "small hole or fillet; give a smaller mesh.size or a mesh.refine "
+                         "there")
 
 
 def _hand_over(case: Case, size: float, surf_names: dict[int, str],

@@ -28,6 +28,7 @@ __all__ = [
 
 ARC_SEGMENTS = 64  # polyline segments per quarter circle in the shapely model
 MIN_FEATURE = 1e-6  # patch widths, stretches and cut margins below this x member size: refused
+MIN_FILLET = 1e-4   # a cut-out fillet is 0 (sharp) or at least this x the member size
 
 
 @dataclass(frozen=True)
@@ -210,7 +211,7 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
                                                f"stretch must be at least {eps:.3g} long (use "
                                                "at + width = 0 for a point)")
         seg = LineString([a, b])
-        covered = dom.boundary.intersection(seg.buffer(1e3 * tol)).length
+        covered = dom.boundary.intersection(seg.buffer(1e3 * tol, cap_style="flat")).length
         if covered < (1 - 1e-4) * seg.length or not _on_one_edge(dom, a, b, tol):
             raise CaseError(file, key, f"the stretch {list(a)} to {list(b)} does not lie on a "
                                        "single straight stretch of the outline")
@@ -408,7 +409,15 @@ def validate_geometry(case: Case) -> None:
     if not outline.is_valid or outline.area <= 0:
         raise CaseError(f, "geometry.points", "the outline crosses itself or has no area")
     size = max(outline.bounds[2] - outline.bounds[0], outline.bounds[3] - outline.bounds[1])
+    small = MIN_FEATURE * size
+    if g.shape == "polygon" and outline.minimum_clearance < small:
+        raise CaseError(f, "geometry.points", f"corners or edges of the outline come within "
+                                              f"{outline.minimum_clearance:.3g} of each other; "
+                                              f"keep them at least {small:.3g} apart")
     for i, h in enumerate(g.holes):
+        if h.radius < small:
+            raise CaseError(f, f"geometry.holes.{i}.radius", f"{h.radius:g} is too small to "
+                                                             f"model; at least {small:.3g}")
         disk = Point(h.center).buffer(h.radius, quad_segs=ARC_SEGMENTS)
         if not outline.buffer(-1e-6 * size).contains(disk):
             raise CaseError(f, f"geometry.holes.{i}", "the hole must lie inside the outline, "
@@ -421,9 +430,19 @@ def validate_geometry(case: Case) -> None:
                 raise CaseError(f, f"geometry.holes.{i}", f"touches or overlaps cut-out {j}; "
                                                           "a hole must stand clear of cut-outs")
     for i, c in enumerate(g.cutouts):
+        if min(c.size) < small:
+            raise CaseError(f, f"geometry.cutouts.{i}.size", f"{list(c.size)} is too small to "
+                                                             f"model; at least {small:.3g} each")
+        if 0 < c.fillet < MIN_FILLET * size:
+            raise CaseError(f, f"geometry.cutouts.{i}.fillet",
+                            f"{c.fillet:g} is too small to model; give 0 for a sharp corner "
+                            f"or at least {MIN_FILLET * size:.3g}")
         if not cutout_polygon(c, outline).intersects(outline):
             raise CaseError(f, f"geometry.cutouts.{i}", "lies wholly outside the outline")
     for i, z in enumerate(g.zones):
+        if min(z.size) < small:
+            raise CaseError(f, f"geometry.zones.{i}.size", f"{list(z.size)} is too small to "
+                                                           f"model; at least {small:.3g} each")
         if not box(z.corner[0], z.corner[1], z.corner[0] + z.size[0],
                    z.corner[1] + z.size[1]).intersects(outline):
             raise CaseError(f, f"geometry.zones.{i}", "lies wholly outside the outline")
@@ -431,6 +450,15 @@ def validate_geometry(case: Case) -> None:
     if dom.geom_type != "Polygon" or dom.is_empty:
         raise CaseError(f, "geometry.cutouts", "the cut-outs split the member into pieces "
                                                "or remove all of it")
+    if g.cutouts:
+        sharp = outline.difference(unary_union([box(c.corner[0], c.corner[1],
+                                                    c.corner[0] + c.size[0],
+                                                    c.corner[1] + c.size[1]) for c in g.cutouts]))
+        if sharp.geom_type == "Polygon" and sharp.minimum_clearance < small:
+            raise CaseError(f, "geometry.cutouts", f"the cut-outs leave a sliver, gap or step "
+                                                   f"of {sharp.minimum_clearance:.3g}; line "
+                                                   "their edges up with the outline or keep "
+                                                   f"them at least {small:.3g} apart")
     patches(case, dom)
     if case.mesh.size > size:
         raise CaseError(f, "mesh.size", f"{case.mesh.size:g} is larger than the member "

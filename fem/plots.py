@@ -3,9 +3,10 @@
 Colour: a diverging, perceptually uniform map centred on zero for signed shear
 ('coolwarm' with a symmetric norm), a sequential one for magnitudes ('cividis');
 Gouraud shading, no contour bands. The colour scale ends at the largest value outside the
-excluded zones (boundary idealisations, drawn as dotted circles), so that a support corner
-does not wash out the rest of the member; the colour bar shows an arrow when values beyond
-it exist. Every figure names its quantity and units.
+excluded zones (boundary idealisations, drawn as dotted circles) and the sharp re-entrant
+corners (singular, marked x), so that a support corner does not wash out the rest of the
+member; the colour bar shows an arrow when values beyond it exist. Cut lines and profiles
+never bridge a hole. Every figure names its quantity and units.
 """
 
 from __future__ import annotations
@@ -26,7 +27,7 @@ from shapely.geometry import LineString  # noqa: E402
 
 from .case import Case  # noqa: E402
 from .level import Level, excluded_zones  # noqa: E402
-from .plane import cut_strips, domain_polygon  # noqa: E402
+from .plane import cut_strips, domain_polygon, reentrant_corners  # noqa: E402
 from .results import CutResult  # noqa: E402
 
 __all__ = ["contour_figure", "profile_figure", "write_beam_figures", "number", "DIVERGING",
@@ -60,33 +61,41 @@ def _outline(ax, dom) -> None:
         ax.plot(x, y, color=INK, lw=0.8, zorder=4)
 
 
-def _patches(ax, case: Case, level: Level, span: float) -> list[tuple[float, float]]:
-    """Supports (green) and loads (purple, arrow with its resultant); returns arrow tails."""
-    tails = []
+def _arrows(case: Case, level: Level, span: float) -> list[tuple[tuple, tuple, np.ndarray]]:
+    """(head, tail, force) of each load's arrow: to the patch centre or the pin's hole."""
+    out = []
+    for p, ld in zip(level.mm.loads, case.loads, strict=True):
+        head = case.geometry.holes[p.hole].center if p.hole is not None else p.centroid
+        F = np.asarray(ld.force, float)
+        d = F / max(np.hypot(*F), 1e-300) * 0.12 * span
+        out.append((tuple(head), (head[0] - d[0], head[1] - d[1]), F))
+    return out
+
+
+def _patches(ax, case: Case, level: Level, span: float) -> None:
+    """Supports (green), loads (purple: the patch or the loaded half of a pin hole, and an
+    arrow with the resultant)."""
     for p in level.mm.supports:
         if p.point is not None:
             ax.plot(*p.point, marker="^", color=SUPPORT_COLOUR, ms=9, zorder=6, clip_on=False)
         for a, b in p.segments:
             ax.plot([a[0], b[0]], [a[1], b[1]], color=SUPPORT_COLOUR, lw=5, alpha=0.85,
                     solid_capstyle="butt", zorder=5, clip_on=False)
-    for p, ld in zip(level.mm.loads, case.loads, strict=True):
-        if p.hole is not None:
-            x, y = case.geometry.holes[p.hole].center
-        else:
-            x, y = p.centroid
-            for a, b in p.segments:
-                ax.plot([a[0], b[0]], [a[1], b[1]], color=LOAD_COLOUR, lw=5, alpha=0.85,
-                        solid_capstyle="butt", zorder=5, clip_on=False)
-        F = np.asarray(ld.force, float)
-        d = F / max(np.hypot(*F), 1e-300) * 0.12 * span
-        tail = (x - d[0], y - d[1])
-        tails.append(tail)
-        ax.annotate("", xy=(x, y), xytext=tail, zorder=7, annotation_clip=False,
+    for p, (head, tail, F) in zip(level.mm.loads, _arrows(case, level, span), strict=True):
+        if p.hole is not None:  # the pin bears on the half of the hole facing the force
+            hole = case.geometry.holes[p.hole]
+            phi = math.atan2(F[1], F[0]) + np.linspace(-0.5 * math.pi, 0.5 * math.pi, 60)
+            ax.plot(hole.center[0] + hole.radius * np.cos(phi),
+                    hole.center[1] + hole.radius * np.sin(phi), color=LOAD_COLOUR, lw=4,
+                    alpha=0.85, solid_capstyle="butt", zorder=5)
+        for a, b in p.segments:
+            ax.plot([a[0], b[0]], [a[1], b[1]], color=LOAD_COLOUR, lw=5, alpha=0.85,
+                    solid_capstyle="butt", zorder=5, clip_on=False)
+        ax.annotate("", xy=head, xytext=tail, zorder=7, annotation_clip=False,
                     arrowprops={"arrowstyle": "-|>", "color": LOAD_COLOUR, "lw": 2.0})
         ax.text(tail[0], tail[1], f" {number(float(np.hypot(*F)))} {case.units.force}",
                 color=LOAD_COLOUR, fontsize=8, ha="left",
-                va="bottom" if d[1] <= 0 else "top", zorder=7)
-    return tails
+                va="bottom" if head[1] <= tail[1] else "top", zorder=7)
 
 
 def _cut_lines(ax, dom, cuts: list[CutResult], colour: str) -> None:
@@ -117,11 +126,21 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
     keep = np.ones(f.p.shape[1], bool)
     for z in zones:
         keep &= np.hypot(f.p[0] - z.at[0], f.p[1] - z.at[1]) > z.radius
+    # a sharp re-entrant corner is singular (Williams 1952): its value depends on the mesh
+    # only, so it sets neither the scale nor the peak shown (radius as fem.run.check_beam's)
+    corners = reentrant_corners(dom)
+    for c in corners:
+        keep &= np.hypot(f.p[0] - c.at[0], f.p[1] - c.at[1]) > 0.05 * h
     mag = np.abs(vals)
     ipk = int(np.argmax(np.where(keep, mag, -np.inf))) if keep.any() else int(np.argmax(mag))
     lim = float(mag[ipk]) or float(mag.max()) or 1.0
     clipped = bool(mag.max() > lim * (1 + 1e-9))
-    fig_h = max(3.6, min(8.0, 7.2 * h / w + 2.0))
+    span = max(w, h)
+    ty = [t[1] for _, t, _ in _arrows(case, level, span)]
+    xlim = (x0 - 0.04 * span, x1 + 0.04 * span)
+    ylim = (min([y0 - 0.08 * h, *ty]) - 0.02 * span, max([y1 + 0.03 * h, *ty]) + 0.04 * span)
+    # height from the drawing's aspect: about 5.4 in of axes width, title and legend band
+    fig_h = float(np.clip(5.4 * (ylim[1] - ylim[0]) / (xlim[1] - xlim[0]) + 2.2, 3.8, 9.5))
     fig, ax = plt.subplots(figsize=(8.0, fig_h))
     label = f"{QUANTITIES[quantity]} [{S}]"
     if quantity == "txy":
@@ -141,17 +160,21 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
         for piece in shapely.get_parts(ring.intersection(dom)):
             if piece.geom_type == "LineString":
                 ax.plot(*piece.xy, ls=":", lw=1.0, color=cut_colour, zorder=4)
-    span = max(w, h)
-    tails = _patches(ax, case, level, span)
+    for c in corners:
+        ax.plot(*c.at, marker="x", ms=8, mew=1.8, color=INK, zorder=8)
+    _patches(ax, case, level, span)
     px, py = f.p[0, ipk], f.p[1, ipk]
     ax.plot(px, py, marker="o", ms=7, mfc="none", mec=INK, mew=1.5, zorder=8)
     peak_name = "max |τxy|" if quantity == "txy" else "max"
-    ax.annotate(f"{peak_name} {number(lim)} {S}", (px, py), xytext=(8, 8),
-                textcoords="offset points", fontsize=8, color=INK, zorder=8,
+    right = px > x0 + 0.6 * w  # keep the label inside the member's box
+    high = py > y0 + 0.8 * h
+    ax.annotate(f"{peak_name} {number(lim)} {S}", (px, py),
+                xytext=(-8 if right else 8, -8 if high else 8), textcoords="offset points",
+                ha="right" if right else "left", va="top" if high else "bottom", fontsize=8,
+                color=INK, zorder=8,
                 bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": "none", "alpha": 0.8})
-    ty = [t[1] for t in tails]
-    ax.set_xlim(x0 - 0.04 * span, x1 + 0.04 * span)
-    ax.set_ylim(min([y0 - 0.08 * h, *ty]) - 0.02 * span, max([y1 + 0.03 * h, *ty]) + 0.04 * span)
+    ax.set_xlim(*xlim)
+    ax.set_ylim(*ylim)
     ax.set_aspect("equal")
     ax.set_xlabel(f"x [{L}]")
     ax.set_ylabel(f"y [{L}]")
@@ -168,13 +191,17 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
                Line2D([], [], marker="o", mfc="none", mec=INK, ls="none", label="peak")]
     if zones:
         handles.append(Line2D([], [], color=INK, ls=":", label="excluded zone"))
-    fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.03),
+    if corners:
+        handles.append(Line2D([], [], color=INK, marker="x", mew=1.8, ls="none",
+                              label="sharp corner (singular)"))
+    fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.2 / fig_h),
                ncol=len(handles), frameon=False, fontsize=8)
     note = "peak and colour scale: largest value outside the excluded zones"
+    note += " and sharp corners" if corners else ""
     if clipped:
-        note += " (the arrow on the colour bar: larger values inside them)"
-    fig.text(0.5, 0.01, note, ha="center", va="bottom", fontsize=7, color="#555555")
-    fig.tight_layout(rect=(0, 0.07, 1, 1))
+        note += " (the arrow on the colour bar: larger values there)"
+    fig.text(0.5, 0.06 / fig_h, note, ha="center", va="bottom", fontsize=7, color="#555555")
+    fig.tight_layout(rect=(0, 0.55 / fig_h, 1, 1))
     fig.savefig(path, dpi=150)
     plt.close(fig)
     return path
@@ -218,16 +245,16 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
         for (_, b), (a, _) in zip(merged[:-1], merged[1:], strict=True):
             ax.axhspan(b, a, color="#e6e6e6", zorder=0)
             ax.text(0.98, 0.5 * (a + b), "no material", transform=ax.get_yaxis_transform(),
-                    ha="right", va="center", fontsize=7, color="#666666")
+                    ha="right", va="center", fontsize=7, color="#666666",
+                    bbox={"boxstyle": "round,pad=0.2", "fc": "#e6e6e6", "ec": "none"})
         ax.axvline(0.0, color="#bbbbbb", lw=0.6)
         ax.grid(alpha=0.25)
         for side in ("top", "right"):
             ax.spines[side].set_visible(False)
     tau_fe = np.asarray(cut.profile.tau_fe)
     i = int(np.argmax(np.abs(tau_fe)))
-    a1.plot(tau_fe[i], y[i], "o", color=FE_COLOUR, ms=5)
-    a1.annotate(f"|τ| = {number(cut.tau_max_fe)} {S}", (tau_fe[i], y[i]), xytext=(6, 4),
-                textcoords="offset points", fontsize=8, color=FE_COLOUR)
+    a1.plot(tau_fe[i], y[i], "o", color=FE_COLOUR, ms=5, ls="none",
+            label=f"FE peak |τ| = {number(cut.tau_max_fe)} {S} at y = {number(y[i])} {L}")
     sign = float(np.sign(tau_fe[i])) or 1.0
     a1.axvline(sign * cut.tau_avg_hand, color="#4d4d4d", lw=1.0, ls=":",
                label=f"hand: V/A = {number(cut.tau_avg_hand)} {S}")

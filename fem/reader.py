@@ -17,9 +17,10 @@ from typing import Any
 
 from .errors import CaseError
 
-__all__ = ["Table", "REQUIRED", "as_point", "key_lines", "line_of"]
+__all__ = ["Table", "REQUIRED", "MAX_MAGNITUDE", "as_point", "key_lines", "line_of"]
 
 REQUIRED = object()
+MAX_MAGNITUDE = 1e15  # no number of a case is larger (any unit): keeps products finite
 
 
 def _is_number(v: Any) -> bool:
@@ -67,6 +68,9 @@ class Table:
             raise self.error(name, f"must be a number, got {_show(v)}")
         if not math.isfinite(v):
             raise self.error(name, f"must be finite, got {v}")
+        if abs(v) > MAX_MAGNITUDE:
+            raise self.error(name, f"{v:g} is out of scale; numbers must lie within "
+                                   f"+-{MAX_MAGNITUDE:g}")
         _check_range(self, name, v, low, high, low_open, high_open)
         return float(v) if not integer else int(v)
 
@@ -97,6 +101,9 @@ class Table:
             return v
         if not isinstance(v, list) or not all(_is_number(x) and math.isfinite(x) for x in v):
             raise self.error(name, f"must be a list of numbers, got {_show(v)}")
+        if any(abs(x) > MAX_MAGNITUDE for x in v):
+            raise self.error(name, f"is out of scale; numbers must lie within "
+                                   f"+-{MAX_MAGNITUDE:g}")
         for x in v:
             _check_range(self, name, x, low, high, False, False)
         return tuple(float(x) for x in v)
@@ -136,6 +143,9 @@ def as_point(v: Any, file: str, key: str) -> tuple[float, float]:
     if (not isinstance(v, list) or len(v) != 2
             or not all(_is_number(x) and math.isfinite(x) for x in v)):
         raise CaseError(file, key, f"must be a point [x, y] of two numbers, got {_show(v)}")
+    if any(abs(x) > MAX_MAGNITUDE for x in v):
+        raise CaseError(file, key, f"{_show(v)} is out of scale; numbers must lie within "
+                                   f"+-{MAX_MAGNITUDE:g}")
     return (float(v[0]), float(v[1]))
 
 

@@ -23,15 +23,21 @@ from .plots import number
 from .plots_convergence import quantity_label
 from .results import CAUTION, atomic_write
 
-__all__ = ["Table", "Block", "Section", "Note", "design_note", "write_report", "sci"]
+__all__ = ["Table", "Block", "Section", "Note", "design_note", "write_report", "sci",
+           "numeric_columns"]
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
 
-def sci(v: float | None, digits: int = 4) -> str:
-    """A number for a document: plain between 1e-3 and 1e6, else 1.234×10⁷."""
+def sci(v: float | None, digits: int = 4, ref: float = 0.0) -> str:
+    """A number for a document: plain between 1e-3 and 1e6, else 1.234×10⁷.
+
+    Values below 1e-9 × |ref| (round-off beside a quantity of size `ref`) print as 0.
+    """
     if v is None or not math.isfinite(v):
         return "–"
+    if abs(v) < 1e-9 * abs(ref):
+        v = 0.0
     if v == 0 or 1e-3 <= abs(v) < 1e6:
         t = number(v, digits)
         t = t.rstrip("0").rstrip(".") if "." in t else t
@@ -46,6 +52,18 @@ class Table:
     rows: list[list[str]]
     caption: str = ""
     marked: set[int] = field(default_factory=set)   # rows to highlight
+
+
+_NUMERIC = set("0123456789.−-+×⁰¹²³⁴⁵⁶⁷⁸⁹⁻%–, ()[]")
+
+
+def numeric_columns(t: Table) -> list[bool]:
+    """Which columns hold numbers only (to be right-aligned); blanks and dashes allowed."""
+    def num(c: str) -> bool:
+        return c in ("", "–") or (any(ch.isdigit() for ch in c) and set(c) <= _NUMERIC)
+
+    return [any(j < len(r) and r[j] not in ("", "–") for r in t.rows)
+            and all(num(r[j]) for r in t.rows if j < len(r)) for j in range(len(t.header))]
 
 
 @dataclass
@@ -129,21 +147,19 @@ def _inputs(res: Any) -> Section:
     s.items.append(Table(["support", "where", "restrains"],
                          [[f"support-{k}", _where(p.where), p.fix]
                           for k, p in enumerate(c.supports)], "Supports"))
-    s.items.append(Table(["load", "where", f"force [Fx, Fy] [{F}]", "distribution"],
-                         [[f"load-{k}", _where(q.where), f"[{q.force[0]:g}, {q.force[1]:g}]",
+    s.items.append(Table(["load", "where", f"force (Fx, Fy) [{F}]", "distribution"],
+                         [[f"load-{k}", _where(q.where), f"({sci(q.force[0])}, {sci(q.force[1])})",
                            q.distribution] for k, q in enumerate(c.loads)], "Loads"))
     return s
 
 
 def _hand(res: Any) -> Section:
     (L, F, S), r = _units(res), res.result
-    s = Section("Hand calculation")
     if res.case.kind != "beam":
-        s.items += [Block(t, "formula") for t in r.hand_calculation]
-        if not r.hand_calculation:
-            s.items.append(Block("The section's hand values are those of the comparison "
-                                 "below (shear formula at its worst cut and V/A)."))
-        return s
+        from .report_section import section_hand
+
+        return section_hand(res)
+    s = Section("Hand calculation")
     s.items.append(Block(
         "At each cut x the section is the stack of material strips met by the vertical line "
         "(width b = plate thickness t). V and M come from statics of the member as a beam on "
@@ -194,9 +210,11 @@ def _fe(res: Any) -> Section:
                  ["element size (finest level)", f"{m.size:g} {L}"]]
     e = r.equilibrium
     if e is not None:
-        rows += [["applied load [Fx, Fy]", f"[{sci(e.applied[0])}, {sci(e.applied[1])}] {F}"],
-                 ["support reactions [Rx, Ry]",
-                  f"[{sci(e.reactions[0])}, {sci(e.reactions[1])}] {F}"],
+        ref = math.hypot(*e.applied)
+        rows += [["applied load (Fx, Fy)",
+                  f"({sci(e.applied[0], ref=ref)}, {sci(e.applied[1], ref=ref)}) {F}"],
+                 ["support reactions (Rx, Ry)",
+                  f"({sci(e.reactions[0], ref=ref)}, {sci(e.reactions[1], ref=ref)}) {F}"],
                  ["equilibrium error |ΣF|/|F|", f"{e.relative_error:.1e}"]]
     t = r.timings
     rows.append(["time: mesh / assemble / solve / post",
@@ -220,16 +238,9 @@ def _comparison(res: Any) -> Section:
     s = Section("FE against hand")
     tol = r.tolerance
     if res.case.kind != "beam":
-        sec = r.section or {}
-        rows = [[k, sci(v) if isinstance(v, int | float) else str(v)]
-                for k, v in sec.items() if not isinstance(v, dict | list)]
-        rows += [[f"{k}.{j}", sci(w)] for k, v in sec.items() if isinstance(v, dict)
-                 for j, w in v.items() if isinstance(w, int | float)]
-        rows += [[k, ", ".join(sci(w) for w in v)] for k, v in sec.items()
-                 if isinstance(v, list) and len(v) <= 3]
-        s.items.append(Table(["quantity", "value"], rows,
-                             f"Section result (lengths in {L}, stresses in {S})"))
-        return s
+        from .report_section import section_comparison
+
+        return section_comparison(res)
     forces, stresses, bad = [], [], set()
     for i, c in enumerate(r.cuts, start=1):
         over = c.ratio is not None and c.ratio > 1 + tol
@@ -270,6 +281,12 @@ def _verdict_words(res: Any) -> str:
             return (f"The {r.hand_method} check holds: at no cut does the FE shear stress exceed "
                     f"the hand value by more than {tol:.0%} (largest ratio {worst.ratio:.3f} at "
                     f"x = {worst.x:g} {L}), and the governing FE figure has converged.")
+    if r.kind == "section":
+        from .report_section import section_verdict_words
+
+        words = section_verdict_words(res)
+        if words:
+            return words
     reasons = {"unsafe": "the FE exceeds the hand value beyond the tolerance (see findings)",
                "holds": "the FE stays within the tolerance of the hand value",
                "inconclusive": "the governing FE figure has not converged, only one mesh was "
@@ -319,15 +336,22 @@ def _convergence(res: Any) -> Section:
                                                              "converged"]
     rows = [["dofs"] + [str(d) for d in cv.dofs] + ["", "", "", ""]] if cv.dofs else []
     marked = set()
-    for name, q in cv.quantities.items():
+    governing = {"values": cv.tau_max, "observed_order": cv.observed_order,
+                 "extrapolated": cv.extrapolated, "gci": cv.gci, "converged": cv.converged,
+                 "singular": cv.singular}
+    quantities = {k: ({**governing, **q} if list(q["values"]) == list(cv.tau_max) else q)
+                  for k, q in cv.quantities.items()}
+    if not any(list(q["values"]) == list(cv.tau_max) for q in quantities.values()):
+        quantities = {cv.quantity: governing, **quantities}
+    for name, q in quantities.items():
         gci = q.get("gci")
         if list(q["values"]) == list(cv.tau_max):
             marked.add(len(rows))
         rows.append([quantity_label(name, L)] + [sci(v) for v in q["values"]]
                     + [sci(q.get("observed_order"), 3), sci(q.get("extrapolated")),
                        "–" if gci is None else f"{gci:.2%}",
-                       ("singular" if q.get("singular") else
-                        "yes" if q.get("converged") else "no")])
+                       ("singular" if q.get("singular") else "–" if "converged" not in q
+                        else "yes" if q["converged"] else "no")])
     s.items.append(Table(head, rows, f"Stresses in {S}, sizes h in {L}; the governing "
                          "quantity is highlighted", marked=marked))
     return s
@@ -362,6 +386,9 @@ def _assumptions(res: Any) -> Section:
 _CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), with the cuts, "
                               "supports, loads and the excluded zones.",
              "von-mises-contour": "Von Mises stress over the member (finest mesh).",
+             "section-shear": "Shear stress magnitude |τ| over the section under the case's "
+                              "shear, with the shear flow (arrows) and the FE peak.",
+             "neutral-axis-profile": "FE and hand shear stress along the neutral axis.",
              "convergence": "Convergence: the governing FE figure against element size with "
                             "the extrapolated value and the GCI band; every tracked quantity's "
                             "distance from its extrapolated value."}
@@ -384,6 +411,10 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     sections = [_findings(res), _inputs(res), _hand(res)]
     if r.kind == "beam":
         sections.append(_fe(res))
+    else:
+        from .report_section import section_fe
+
+        sections.append(section_fe(res))
     sections += [_comparison(res), _convergence(res), _assumptions(res)]
     figs = [(Path(p), _caption(res, Path(p))) for p in figures if Path(p).suffix == ".png"]
     return Note(title=r.title, subtitle=f"case {r.case} · {r.kind} check · shearcheck",

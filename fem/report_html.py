@@ -11,7 +11,7 @@ import base64
 import html
 from pathlib import Path
 
-from .report import Block, Note, Table
+from .report import Block, Note, Table, numeric_columns
 from .results import CAUTION
 
 __all__ = ["render_html", "CSS"]
@@ -45,7 +45,7 @@ pre.formula{font:13px/1.65 ui-monospace,"DejaVu Sans Mono",Menlo,Consolas,monosp
 background:var(--soft);border:1px solid var(--rule);border-radius:6px;padding:10px 14px;
 white-space:pre-wrap;margin:10px 0}
 .scroll{overflow-x:auto;margin:8px 0 18px}
-table{border-collapse:collapse;font-size:13px;font-variant-numeric:tabular-nums;width:100%}
+table{border-collapse:collapse;font-size:13px;font-variant-numeric:tabular-nums;min-width:66%}
 caption{caption-side:top;text-align:left;font-weight:600;color:var(--mute);padding:0 0 6px}
 th,td{padding:5px 9px;border-bottom:1px solid var(--rule);vertical-align:top}
 th{background:var(--soft);text-align:left;font-weight:600}
@@ -60,13 +60,6 @@ color:var(--mute)}
 @media print{main{padding:0}h2{break-after:avoid}figure,tr{break-inside:avoid}}
 """
 
-_NUMERIC = set("0123456789.−-+×⁰¹²³⁴⁵⁶⁷⁸⁹⁻%–, ()[]")
-
-
-def _is_num(text: str) -> bool:
-    return bool(text) and any(ch.isdigit() for ch in text) and set(text) <= _NUMERIC
-
-
 def _anchor(title: str) -> str:
     return "".join(ch if ch.isalnum() else "-" for ch in title.lower()).strip("-")
 
@@ -74,8 +67,7 @@ def _anchor(title: str) -> str:
 def _table(t: Table) -> str:
     e = html.escape
     kv = len(t.header) == 2  # an item/value list reads best left-aligned
-    num = [not kv and all(_is_num(r[j]) or r[j] in ("", "–") for r in t.rows if j < len(r))
-           for j in range(len(t.header))]
+    num = [not kv and c for c in numeric_columns(t)]
     cls = ' class="kv"' if kv else ""
     out = [f'<div class="scroll"><table{cls}>']
     if t.caption:
@@ -93,8 +85,9 @@ def _table(t: Table) -> str:
 
 def _block(b: Block) -> str:
     e = html.escape
-    if b.style == "formula":
-        return f'<pre class="formula">{e(b.text)}</pre>'
+    if b.style == "formula":  # the first line names what follows
+        head, _, rest = b.text.partition("\n")
+        return f'<pre class="formula"><b>{e(head)}</b>\n{e(rest)}</pre>'
     if b.style == "finding":
         kind, _, msg = b.text.partition(": ")
         return f'<p class="finding"><b>{e(kind)}</b> — {e(msg)}</p>'

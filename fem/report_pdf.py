@@ -14,12 +14,13 @@ from typing import Any
 
 import matplotlib.image as mpimg
 import matplotlib.pyplot as plt
+import numpy as np
 from matplotlib.backends.backend_pdf import PdfPages
 from matplotlib.font_manager import FontProperties, findfont, get_font
 from matplotlib.lines import Line2D
 
 from . import plots  # noqa: F401  (selects the Agg backend)
-from .report import Note, Table
+from .report import Note, Table, numeric_columns
 from .results import CAUTION, atomic_write
 
 __all__ = ["write_pdf", "PAGE", "MARGIN"]
@@ -56,6 +57,9 @@ def _wrap(text: str, size: float, width: float, mono: bool, bold: bool,
           hang: str) -> list[str]:
     lines: list[str] = []
     for raw in text.split("\n"):
+        if _width(raw, size, mono, bold) <= width:
+            lines.append(raw)  # fits: keep its spacing
+            continue
         lead = raw[: len(raw) - len(raw.lstrip())]
         words, line = raw.split(), lead
         for w in words:
@@ -100,9 +104,12 @@ class _Pages:
                       parse_math=False, **kw)
 
     def para(self, text: str, size: float = 9.0, mono: bool = False, bold: bool = False,
-             hang: str = "", gap: float = 0.5, **kw: Any) -> None:
+             hang: str = "", gap: float = 0.5, keep: float = 0.0, **kw: Any) -> None:
+        """Wrapped text; `keep` inches more must fit on the page, or a new page begins."""
         step = size * 1.45 / 72
-        for line in _wrap(text, size, _W, mono, bold, hang):
+        lines = _wrap(text, size, _W, mono, bold, hang)
+        self.need(len(lines) * step + keep)
+        for line in lines:
             self.need(step)
             self.y -= step
             self.put(MARGIN, line, size, family="monospace" if mono else "sans-serif",
@@ -127,6 +134,8 @@ class _Pages:
             size -= 0.5
         row_h = size * 1.55 / 72
         n_head = max(len(h) for h in heads)
+        right = numeric_columns(t) if len(t.header) > 2 else [False] * len(t.header)
+        gap = 0.12 * size / 8.0
 
         def header() -> None:
             for k in range(n_head):
@@ -134,7 +143,7 @@ class _Pages:
                 x = MARGIN
                 for j, hd in enumerate(heads):
                     if k < len(hd):
-                        self.put(x, hd[k], size, fontweight="bold")
+                        self._cell(x, colw[j] - gap, right[j], hd[k], size, fontweight="bold")
                     x += colw[j]
             self.rule(sum(colw), 0.05)
             self.y -= 0.07
@@ -151,9 +160,16 @@ class _Pages:
             self.y -= row_h
             x = MARGIN
             for j, c in enumerate(r[: len(colw)]):
-                self.put(x, c, size, color=_COLOUR["unsafe"] if k in t.marked else INK)
+                self._cell(x, colw[j] - gap, right[j], c, size,
+                           color=_COLOUR["unsafe"] if k in t.marked else INK)
                 x += colw[j]
         self.y -= 0.15
+
+    def _cell(self, x: float, w: float, right: bool, s: str, size: float, **kw: Any) -> None:
+        if right:
+            self.put(x + w, s, size, ha="right", **kw)
+        else:
+            self.put(x, s, size, **kw)
 
 
 def _footer(fig: Any, text: str) -> None:
@@ -178,12 +194,17 @@ def _text_pages(note: Note, pdf: PdfPages) -> int:
             if isinstance(it, Table):
                 pg.table(it)
             elif it.style == "formula":
-                pg.para(it.text, 7.5, mono=True, hang="    ")
+                head, _, rest = it.text.partition("\n")  # a block stays on one page
+                body = len(_wrap(rest, 7.5, _W, True, False, "    ")) * 7.5 * 1.45 / 72
+                pg.para(head, 7.5, mono=True, bold=True, hang="    ", gap=0.0, keep=body)
+                pg.para(rest, 7.5, mono=True, hang="    ", gap=1.6)
             elif it.style.startswith("verdict"):
                 pg.para(it.text, 10.0, bold=True, color=_COLOUR.get(note.verdict, INK))
             elif it.style in ("finding", "bullet"):
-                pg.para("•  " + it.text, 8.5, hang="   ")
-            elif it.style in ("small", "caution"):
+                pg.para("• " + it.text, 8.5, hang="  ")
+            elif it.style == "caution":
+                pg.para("Caution. " + it.text, 8.5, color="#8a5a00", style="italic")
+            elif it.style == "small":
                 pg.para(it.text, 7.5, color=MUTE)
             else:
                 pg.para(it.text, 9.0)
@@ -193,7 +214,7 @@ def _text_pages(note: Note, pdf: PdfPages) -> int:
 
 def _figure_page(pdf: PdfPages, p: Path, caption: str, title: str, footer: str) -> None:
     fig = plt.figure(figsize=PAGE)
-    img = mpimg.imread(p)
+    img = (np.clip(mpimg.imread(p), 0.0, 1.0) * 255).round().astype(np.uint8)  # as stored
     h, w = img.shape[:2]
     scale = min(_W / w, (PAGE[1] - 2 * MARGIN - 1.2) / h)
     top = PAGE[1] - MARGIN - 0.45

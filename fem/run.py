@@ -145,6 +145,9 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
                           for f in findings)
     if v == "inconclusive" and definite_excess and (converged or len(levels) == 1):
         v = "unsafe"
+    if v == "inconclusive" and any(c.converged and c.ratio is not None
+                                   and c.ratio > 1 + case.check.tolerance for c in conc):
+        v = "unsafe"  # a converged peak at a hole or fillet above the hand shear decides alone
     sol, mm = fin.sol, fin.mm
     conv = ConvergenceResult(
         sizes=sizes, tau_max=gov["values"], observed_order=gov["observed_order"],

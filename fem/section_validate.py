@@ -17,7 +17,10 @@ from shapely.geometry import Polygon
 from .case import Case, SectionGeometry
 from .errors import CaseError
 
-__all__ = ["validate_section", "section_extent"]
+__all__ = ["validate_section", "section_extent", "MIN_RADIUS", "MAX_SIZE"]
+
+MIN_RADIUS = 1e-4  # root radii (unless 0), walls, gaps: at least this x the section's extent
+MAX_SIZE = 0.25    # mesh.size at most this x the section's extent
 
 
 def _fits(p: dict[str, Any], key: str, ok_without_root: bool, ok: bool, base: str,
@@ -34,6 +37,11 @@ def _fits(p: dict[str, Any], key: str, ok_without_root: bool, ok: bool, base: st
 def _flanged(shape: str, p: dict[str, Any], file: str) -> None:
     h, b = p["depth"], p["flange_width"]
     tf, tw, r = p["flange_thickness"], p["web_thickness"], p.get("root_radius", 0.0)
+    smallest = MIN_RADIUS * max(h, b)
+    if 0 < r < smallest:
+        raise CaseError(file, "geometry.root_radius", f"{r:g} is too small to model; give 0 "
+                                                      f"for a sharp corner or at least "
+                                                      f"{smallest:.3g}")
     if shape == "tee":
         _fits(p, "flange_thickness", tf < h, tf + r < h,
               f"{tf:g} must be smaller than the depth ({h:g}) to leave a web",
@@ -59,6 +67,11 @@ def _ring(points: list[tuple[float, float]], key: str, file: str) -> Polygon:
     if not ring.is_valid or ring.area <= 0:
         raise CaseError(file, key, "the outline crosses itself or has no area; give the "
                                    "corners in order round the boundary")
+    x0, y0, x1, y1 = ring.bounds
+    small = MIN_RADIUS * max(x1 - x0, y1 - y0)
+    if ring.minimum_clearance < small:
+        raise CaseError(file, key, f"corners or edges come within {ring.minimum_clearance:.3g} "
+                                   f"of each other; keep them at least {small:.3g} apart")
     return ring
 
 
@@ -84,6 +97,13 @@ def validate_section(case: Case) -> None:
     """Refuse section dimensions that make no shape; raise `CaseError` naming the key."""
     g: SectionGeometry = case.geometry  # type: ignore[assignment]
     p, f = g.params, case.file
+    if g.shape != "polygon":
+        extent = section_extent(g)
+        for k, v in p.items():
+            if k != "root_radius" and v < MIN_RADIUS * extent:
+                raise CaseError(f, f"geometry.{k}", f"{v:g} is too small beside the section's "
+                                                    f"{extent:g}; at least "
+                                                    f"{MIN_RADIUS * extent:.3g}")
     if g.shape == "tube" and not p["wall"] < p["diameter"] / 2:
         raise CaseError(f, "geometry.wall", f"{p['wall']:g} must be smaller than the radius "
                                             f"({p['diameter'] / 2:g}); the tube needs a bore")
@@ -102,10 +122,11 @@ def validate_section(case: Case) -> None:
     if g.shape == "polygon":
         _polygon(p, f)
     extent = section_extent(g)
-    if case.mesh.size > extent:
+    if case.mesh.size > MAX_SIZE * extent:
         raise CaseError(f, "mesh.size", f"{case.mesh.size:g} is larger than the section "
-                                        f"({extent:g} across); give a size a fraction of the "
-                                        "thinnest wall")
+                                        f"allows: at most {MAX_SIZE * extent:g}, a quarter of "
+                                        f"its {extent:g} across (a fraction of the thinnest "
+                                        "wall is better)")
 
 
 def section_extent(g: SectionGeometry) -> float:

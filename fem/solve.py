@@ -3,8 +3,14 @@
 Plane stress uses lambda* = E nu / (1 - nu^2) (not the 3D lambda, see FEM-NOTES), plane
 strain the 3D lambda. The out-of-plane thickness enters the stiffness element by element
 (zones). Loads are assembled as force per unit length of boundary and scaled so that each
-resultant equals the stated force to round-off. The direct solve uses SuperLU with the
-symmetric minimum-degree ordering (measured 2-3.5x faster than the default here).
+resultant equals the stated force to round-off.
+
+The stiffness is assembled from element matrices computed for all elements at once
+(`element_stiffness`), not through a generic weak form. Systems up to `DIRECT_LIMIT` free
+dofs are solved directly (SuperLU with the symmetric minimum-degree ordering), larger ones
+by conjugate gradients preconditioned with smoothed-aggregation AMG built on the three
+rigid-body modes (`solve_linear`); bench/bench_speed.py measures both against the generic
+route (FEM-NOTES has the solver table).
 """
 
 from __future__ import annotations
@@ -15,18 +21,24 @@ from dataclasses import dataclass
 import numpy as np
 import scipy.sparse as sp
 from scipy.sparse.linalg import splu
-from skfem import Basis, BilinearForm, ElementTriP2, ElementVector, FacetBasis, LinearForm, asm
+from skfem import Basis, ElementTriP2, ElementVector, FacetBasis, LinearForm, asm
 from skfem.element import ElementTriP1
-from skfem.helpers import ddot, sym_grad, trace
 
 from .case import Case, Load
 from .errors import SolveError
 from .mesh import MemberMesh
 from .plane import Patch, check_mechanism
 
-__all__ = ["Solution", "lame", "solve_member", "check_mechanism", "RESIDUAL_LIMIT"]
+__all__ = ["Solution", "lame", "solve_member", "check_mechanism", "RESIDUAL_LIMIT",
+           "DIRECT_LIMIT", "element_stiffness", "assemble_stiffness", "rigid_body_modes",
+           "solve_linear"]
 
 RESIDUAL_LIMIT = 1e-6  # |K u - f| / |f| on the free dofs above this: the solve is not trusted
+# free dofs up to which the direct solve is used, above it AMG-CG: measured (demo bracket,
+# bench/bench_speed.py) the direct solve is faster up to about 500k dofs, AMG-CG beyond
+# (1M dofs: 35 s against 46 s CPU) and needs less than half the memory (2.8 against 6.6 GiB)
+DIRECT_LIMIT = 500_000
+CG_TOLERANCE = 1e-10  # relative residual at which conjugate gradients stop
 
 
 @dataclass
@@ -52,6 +64,8 @@ class Solution:
         return (rx, ry)
 
     load_scale: float = 1.0                 # sum of |F| over the loads
+    solver: str = "direct"                  # "direct" or "amg" (see solve_linear)
+    iterations: int = 0                     # CG iterations (0 for the direct solve)
 
     @property
     def equilibrium_error(self) -> float:
@@ -68,10 +82,105 @@ def lame(E: float, nu: float, model: str) -> tuple[float, float]:
     return E * nu / (1.0 - nu**2), mu
 
 
-@BilinearForm
-def _stiffness(u, v, w):
-    eu, ev = sym_grad(u), sym_grad(v)
-    return w.thk * (2.0 * w.mu * ddot(eu, ev) + w.lam * trace(eu) * trace(ev))
+def element_stiffness(basis: Basis, lam: float, mu: float,
+                      thickness: np.ndarray) -> np.ndarray:
+    """Element stiffness matrices of plane elasticity for every element at once.
+
+    With scalar shape functions phi_a and displacement components i, j, the bilinear form
+    int t (2 mu eps(u) : eps(v) + lam div u div v) gives the entries
+
+        K[(a, i), (b, j)] = int t (lam d_i phi_a d_j phi_b + mu d_j phi_a d_i phi_b
+                                   + mu delta_ij grad phi_a . grad phi_b),
+
+    so one batched product P = int t d_i phi_a d_j phi_b per element (over the basis's own
+    quadrature and mapping, curved elements included) yields all of them.
+
+    Parameters
+    ----------
+    basis : skfem.Basis
+        Vector basis (`ElementVector` of a scalar element); its local function 2a + c is
+        component c of scalar function a.
+    lam, mu : float
+        Lame parameters (plane stress: lambda*).
+    thickness : ndarray
+        Out-of-plane thickness per element.
+
+    Returns
+    -------
+    ndarray
+        (nelems, Nbfun, Nbfun), rows and columns in the basis's local order.
+    """
+    ns = basis.Nbfun // 2
+    grad = np.stack([basis.basis[2 * a][0].grad[0] for a in range(ns)], axis=1)
+    nel, nq = grad.shape[2], grad.shape[3]
+    g = grad.transpose(2, 0, 1, 3).reshape(nel, 2 * ns, nq)          # row i * ns + a
+    w = basis.dx * np.asarray(thickness, float)[:, None]
+    P = np.matmul(g * w[:, None, :], g.transpose(0, 2, 1)).reshape(nel, 2, ns, 2, ns)
+    laplace = P[:, 0, :, 0, :] + P[:, 1, :, 1, :]
+    Ke = np.empty((nel, ns, 2, ns, 2))
+    for i in range(2):
+        for j in range(2):
+            Ke[:, :, i, :, j] = lam * P[:, i, :, j, :] + mu * P[:, j, :, i, :]
+        Ke[:, :, i, :, i] += mu * laplace
+    return Ke.reshape(nel, 2 * ns, 2 * ns)
+
+
+def assemble_stiffness(basis: Basis, Ke: np.ndarray) -> sp.csr_matrix:
+    """Global CSR matrix from element matrices (nelems, Nbfun, Nbfun) of `basis`."""
+    dofs = basis.element_dofs.T.astype(np.int32)                      # (nelems, Nbfun)
+    nb = dofs.shape[1]
+    rows = np.repeat(dofs, nb, axis=1).ravel()
+    cols = np.tile(dofs, (1, nb)).ravel()
+    return sp.coo_matrix((Ke.ravel(), (rows, cols)), shape=(basis.N, basis.N)).tocsr()
+
+
+def rigid_body_modes(basis: Basis, dofs: np.ndarray) -> np.ndarray:
+    """Translations in x, y and the rotation about the centroid at `dofs`: (len(dofs), 3)."""
+    comp = np.zeros(basis.N, dtype=np.int64)
+    comp[basis.split_indices()[1]] = 1
+    xy = basis.doflocs[:, dofs]
+    xy = xy - xy.mean(axis=1, keepdims=True)
+    c = comp[dofs]
+    B = np.zeros((len(dofs), 3))
+    B[c == 0, 0] = 1.0
+    B[c == 1, 1] = 1.0
+    B[:, 2] = np.where(c == 0, -xy[1], xy[0])
+    return B
+
+
+def solve_linear(A: sp.csr_matrix, b: np.ndarray, method: str = "direct",
+                 modes: np.ndarray | None = None) -> tuple[np.ndarray, int]:
+    """Solve the symmetric positive definite system A x = b.
+
+    Parameters
+    ----------
+    A : csr_matrix
+        The condensed stiffness matrix.
+    b : ndarray
+        Right-hand side.
+    method : {"direct", "amg"}
+        "direct": SuperLU in symmetric mode with the minimum-degree ordering of A + A^T.
+        "amg": conjugate gradients preconditioned with smoothed aggregation (energy-
+        minimising prolongation) on the rigid-body modes; the default near-null space does
+        not converge (FEM-NOTES). Stops at a relative residual of CG_TOLERANCE.
+    modes : ndarray, optional
+        (n, 3) rigid-body modes (`rigid_body_modes`), required for "amg".
+
+    Returns
+    -------
+    (x, CG iterations); 0 iterations for the direct solve.
+    """
+    if method == "direct":
+        lu = splu(A.tocsc(), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True})
+        return lu.solve(b), 0
+    if method != "amg" or modes is None:
+        raise ValueError(f"unknown solver {method!r}, or AMG without rigid-body modes")
+    import pyamg
+
+    ml = pyamg.smoothed_aggregation_solver(A, B=modes, smooth="energy", symmetry="symmetric")
+    residuals: list[float] = []
+    x = ml.solve(b, tol=CG_TOLERANCE, accel="cg", maxiter=500, residuals=residuals)
+    return x, max(len(residuals) - 1, 0)
 
 
 def _load_vector(basis: Basis, mm: MemberMesh, load: Load, patch: Patch,
@@ -86,7 +195,10 @@ def _load_vector(basis: Basis, mm: MemberMesh, load: Load, patch: Patch,
         dofs = basis.nodal_dofs[:, mm.points[patch.name]]
         f[dofs] = F
         return f
-    fb = FacetBasis(mm.mesh, basis.elem, facets=mm.boundaries[patch.name],
+    # a straight patch is integrated on the straight-sided twin (same dofs, same facets):
+    # exact on a straight edge, and it avoids inverting badly curved neighbours
+    host = mm.mesh if patch.hole is not None else mm.finder_mesh
+    fb = FacetBasis(host, basis.elem, facets=mm.boundaries[patch.name],
                     intorder=2 * mm.order + 2)
     if patch.hole is not None:
         c = np.asarray(case.geometry.holes[patch.hole].center)
@@ -147,9 +259,7 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
     elem = ElementVector(ElementTriP2() if mm.order == 2 else ElementTriP1())
     basis = Basis(mm.mesh, elem, intorder=2 * mm.order)
     lam, mu = lame(case.material.E, case.material.nu, case.material.model)
-    nqp = basis.X.shape[1]
-    thk = np.repeat(mm.thickness[:, None], nqp, axis=1)
-    K = asm(_stiffness, basis, lam=lam, mu=mu, thk=thk).tocsr()
+    K = assemble_stiffness(basis, element_stiffness(basis, lam, mu, mm.thickness))
     f = np.zeros(basis.N)
     for load, patch in zip(case.loads, mm.loads, strict=True):
         f += _load_vector(basis, mm, load, patch, case)
@@ -159,10 +269,11 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
     t1 = time.perf_counter()
     free = np.setdiff1d(np.arange(basis.N), fixed)
     u = np.zeros(basis.N)
-    Kff = K[free][:, free].tocsc()
+    Kff = K[free][:, free]  # measured faster than masking the stored entries
+    used = "amg" if len(free) > DIRECT_LIMIT else "direct"
+    modes = rigid_body_modes(basis, free) if used == "amg" else None
     try:
-        lu = splu(Kff, permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True})
-        u[free] = lu.solve(f[free])
+        u[free], iterations = solve_linear(Kff, f[free], used, modes)
     except RuntimeError as exc:
         raise SolveError(f"the stiffness matrix is singular ({exc}); the supports probably "
                          "leave part of the member free to move") from None
@@ -190,4 +301,5 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
     return Solution(basis=basis, u=u, K=K, f=f, fixed=fixed, reactions=reactions,
                     applied=applied, lam=lam, mu=mu, seconds_assemble=t1 - t0,
                     seconds_solve=t2 - t1,
-                    load_scale=sum(float(np.hypot(*ld.force)) for ld in case.loads))
+                    load_scale=sum(float(np.hypot(*ld.force)) for ld in case.loads),
+                    solver=used, iterations=iterations)

@@ -15,7 +15,11 @@ the sweep (workers return their results; they write nothing)::
 
 A point counts as finished only once its index line is on disk, so a sweep killed at any
 moment loses no finished point, and re-running it skips exactly the indexed points
-(a half-written last line is cut off first): nothing is repeated or duplicated.
+(a half-written last line is cut off first): nothing is repeated or duplicated. A point that
+fails (bad input, a model that cannot be meshed or solved, any error in the chain) is a
+finished point with its message. A local worker process that dies outright (a crash in
+native code) stops the sweep with an internal error; a re-run resumes. On Dask such a point
+is retried by the scheduler and then recorded as failed.
 """
 
 from __future__ import annotations
@@ -540,7 +544,8 @@ def ratio_figure(path: Path, case: Any, varies: list[Vary], rows: list[dict[str,
     fig, ax = plt.subplots(figsize=(6.4, 4.2), constrained_layout=True)
     for j, (rest, pts) in enumerate(sorted(groups.items())):
         pts.sort()
-        label = ", ".join(f"{v.key} = {x:g}" for v, x in zip(varies[1:], rest, strict=True))
+        label = ", ".join(f"{v.key} = {x:g} {_unit(v.key, case)}".replace(" -", "")
+                          for v, x in zip(varies[1:], rest, strict=True))
         colour = cmap(0.15 + 0.7 * j / max(1, len(groups) - 1)) if len(groups) > 1 else "C0"
         ax.plot([p[0] for p in pts], [p[1] for p in pts], "o-", color=colour, ms=4,
                 label=label or None)

@@ -197,7 +197,7 @@ def test_rerun_skips_finished_points(local, stub):
 
 def test_dask_cluster_gives_the_same_csv(local, stub, tmp_path):
     """The same sweep through a Dask scheduler (two single-threaded worker processes)."""
-    distributed = pytest.importorskip("distributed")
+    import distributed
     with distributed.LocalCluster(processes=True, n_workers=2, threads_per_worker=1,
                                   dashboard_address=None) as cluster:
         rep = run_sweep(stub, [parse_vary(VARY)], tmp_path, scheduler=cluster.scheduler_address,
