@@ -101,9 +101,15 @@ def check(path_or_case: str | Path | Case,
 
         run = check_beam(case, progress=progress)
         return CheckResult(case=case, result=run.result, run=run)
+    from .progress import as_progress
     from .section_run import check_section_case
 
-    return check_section_case(case, progress=progress)
+    prog = as_progress(progress)  # the section run calls a plain progress(message)
+    prog.start(case.mesh.levels)
+    try:
+        return check_section_case(case, progress=prog.step)
+    finally:
+        prog.close()
 
 
 def write_outputs(res: CheckResult, out: str | Path, report: bool = True) -> list[Path]:

@@ -253,7 +253,7 @@ def _peaks(level: Level, near: np.ndarray) -> dict[str, Any]:
             "vm": float(von_mises_plane(n["sxx"][near], n["syy"][near], n["txy"][near]).max())}
 
 
-def _corner_sample(level: Level, f: Feature, dom) -> float:
+def _corner_sample(level: Level, f: Feature, dom, locator: PointLocator) -> float:
     """von Mises of the FE field CORNER_SAMPLE_RATIO * h from the vertex on the bisector
     (NaN where that point is not in the material: a mesh too coarse for the corner)."""
     rho = CORNER_SAMPLE_RATIO * level.size
@@ -261,8 +261,7 @@ def _corner_sample(level: Level, f: Feature, dom) -> float:
     q = (f.centre[0] + rho * f.bisector[0], f.centre[1] + rho * f.bisector[1])
     if not dom.contains(Point(q)):
         return math.nan
-    s = level.field.at(PointLocator(level.field.p, level.field.t), np.array([q[0]]),
-                       np.array([q[1]]))
+    s = level.field.at(locator, np.array([q[0]]), np.array([q[1]]))
     return float(von_mises_plane(s["sxx"], s["syy"], s["txy"])[0])
 
 
@@ -356,10 +355,12 @@ def _strip(case: Case, level: Level, f: Feature, dom, hd: CutHand,
         peak=math.copysign(kt * axial, hd.N), opposite=None)
 
 
-def _nominal(c: Concentration, hd: CutHand, method: str, L: str) -> None:
+def _nominal(c: Concentration, hd: CutHand, method: str, L: str, scale: float) -> None:
+    """Kt and the shear ratio against the hand side at the net section (module docstring);
+    a hand shear below 1e-9 of `scale` (the largest hand stress of the check) is none."""
     sec = hd.section
     c.sigma_nominal = abs(hd.N) / sec.area + abs(hd.M) * sec.fibre_distance() / sec.inertia
-    c.tau_nominal = hd.tau_method
+    c.tau_nominal = hd.tau_method if hd.tau_method > 1e-9 * scale else 0.0
     x = f"{_fmt(hd.x)} {L}"
     if c.sigma_nominal >= c.tau_nominal:
         c.nominal = c.sigma_nominal
@@ -397,6 +398,15 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
     dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
     sizes = [lv.size for lv in levels]
     L = case.units.length
+    locators: dict[int, PointLocator] = {}
+
+    def locator(k: int) -> PointLocator:
+        if k not in locators:
+            locators[k] = PointLocator(levels[k].field.p, levels[k].field.t)
+        return locators[k]
+
+    hand_scale = max([c.tau_method for c in fin.cuts_hand]
+                     + [c.sigma_x_max for c in fin.cuts_hand] + [0.0])
     out = []
     for f in features(case):
         per = []
@@ -410,7 +420,7 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
                           tension=pk["tension"], compression=pk["compression"],
                           tau_peak=pk["tau"], tau_at=pk["tau_at"])
         if f.kind == "corner":
-            c.values = [_corner_sample(lv, f, dom) for lv in levels]
+            c.values = [_corner_sample(lv, f, dom, locator(k)) for k, lv in enumerate(levels)]
             c.corner_peaks = [math.nan if q is None else q["vm"] for q in per]
             c.williams = williams_lambda(min(f.angle, 360.0)) - 1.0
             if len(levels) >= 2 and all(math.isfinite(v) for v in c.values):
@@ -424,7 +434,8 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
                 c.study = study(sizes, c.values)
         hd = None if f.loaded else _hand(case, fin, f.x_net, np.array([f.centre[1]]))
         if hd is not None:
-            _nominal(c, hd, case.check.method, L)
+            _nominal(c, hd, case.check.method, L,
+                     max(hand_scale, abs(hd.N) / hd.section.area, hd.tau_method))
             if f.kind == "hole":
                 c.formulas = [v for v in (_kirsch(case, fin, f, dom, case.units.stress),
                                           _strip(case, fin, f, dom, hd, case.units.stress))

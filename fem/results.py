@@ -175,7 +175,10 @@ def atomic_write(path: Path, data: bytes) -> None:
     path = Path(path)
     path.parent.mkdir(parents=True, exist_ok=True)
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
+    umask = os.umask(0)
+    os.umask(umask)
     try:
+        os.chmod(tmp, 0o666 & ~umask)  # mkstemp makes 0600; results are for everyone to read
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
             fh.flush()

@@ -12,7 +12,6 @@ inputs per property; `pytest -m slow` runs the same properties with 1,000 and mo
 
 from __future__ import annotations
 
-import importlib.util
 import json
 import math
 from typing import Any
@@ -290,9 +289,6 @@ def _run_coarse(case: Case) -> None:
     from fem.api import check
 
     small = case.with_mesh(levels=1, max_dofs=min(case.mesh.max_dofs, RUN_DOFS))
-    if case.kind == "section" and importlib.util.find_spec("fem.section_run") is None:
-        _mesh_section(small)  # the section check is not in this tree yet: mesh and solve
-        return
     try:
         res = check(small)
     except (CaseError, SolveError) as exc:
@@ -304,28 +300,7 @@ def _run_coarse(case: Case) -> None:
     assert res.verdict in ("holds", "unsafe", "inconclusive")
 
 
-def _mesh_section(case: Case) -> None:
-    """A validated section meshes, solves and compares at a coarse size (one mesh)."""
-    from fem.section_check import check_section
-    from fem.sizing import estimate_dofs
-
-    if estimate_dofs(case, case.mesh.size) > RUN_DOFS:
-        event("section too fine to mesh here")
-        return
-    g, m = case.geometry, case.material
-    res = check_section(g.shape, g.params, m.E, m.nu, case.shear[0], case.shear[1],
-                        size=case.mesh.size, order=case.mesh.order, method=case.check.method)
-    assert res.verdict in ("holds", "unsafe", "inconclusive")
-    event("section ran to a verdict")
-
-
-def _property_beam(d: dict[str, Any]) -> None:
-    case = _parse(to_toml(d))
-    if case is not None:
-        _run_coarse(case)
-
-
-def _property_section(d: dict[str, Any]) -> None:
+def _property(d: dict[str, Any]) -> None:
     case = _parse(to_toml(d))
     if case is not None:
         _run_coarse(case)
@@ -354,13 +329,13 @@ def edited_text(draw) -> str:
 @FAST
 @given(mutated(beam_cases()))
 def test_beam_cases_run_or_are_refused_cleanly(d):
-    _property_beam(d)
+    _property(d)
 
 
 @FAST
 @given(mutated(section_cases()))
 def test_section_cases_are_accepted_or_refused_cleanly(d):
-    _property_section(d)
+    _property(d)
 
 
 @FAST
@@ -373,14 +348,14 @@ def test_edited_text_is_parsed_or_refused_cleanly(text):
 @SLOW
 @given(mutated(beam_cases()))
 def test_beam_cases_slow(d):
-    _property_beam(d)
+    _property(d)
 
 
 @pytest.mark.slow
 @SLOW
 @given(mutated(section_cases()))
 def test_section_cases_slow(d):
-    _property_section(d)
+    _property(d)
 
 
 @pytest.mark.slow

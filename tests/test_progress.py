@@ -138,3 +138,16 @@ def test_cli_prints_no_bar_when_stderr_is_captured(tmp_path, write_case):
                             str(tmp_path / "b"), "--no-report", "--quiet"],
                            capture_output=True, text=True, env=env, cwd=tmp_path)
     assert quiet.returncode == 0 and quiet.stdout == "" and quiet.stderr == ""
+
+
+def test_section_checks_report_progress_through_the_same_protocol():
+    """fem.check adapts the section run's plain progress(message) calls to a Progress."""
+    from fem.api import check
+    from fem.case import load_case
+
+    case = load_case(ROOT / "cases" / "rectangle-wide-section.toml").with_mesh(levels=2,
+                                                                              size=8.0)
+    rec = _Recorder()
+    check(case, progress=rec)
+    assert rec.calls[0] == ("start", 2) and rec.calls[-1] == ("close",)
+    assert [c[1] for c in rec.calls[1:-1]] == ["level 1/2: size 8", "level 2/2: size 4"]
