@@ -26,6 +26,7 @@ __all__ = [
 
 SCHEMA = 1
 MAX_NAME = 64  # characters in a case name (it becomes a folder name)
+MAX_NU_STRAIN = 0.499  # plane strain above this: volumetric locking, ill-conditioned stiffness
 EDGES = ("left", "right", "top", "bottom")
 METHODS = ("shear-formula", "average", "single-shear", "double-shear")
 FIXES = ("xy", "x", "y")
@@ -279,6 +280,10 @@ def _material(t: Table, kind: str) -> Material:
     if kind == "beam":
         thickness = t.number("thickness", low=0.0, low_open=True)
         model = t.text("model", "plane-stress", allowed=("plane-stress", "plane-strain"))
+        if model == "plane-strain" and nu > MAX_NU_STRAIN:
+            raise t.error("nu", f"{nu:g} is nearly incompressible in plane strain: the "
+                                "displacement elements lock and the stiffness is ill-"
+                                f"conditioned; use nu <= {MAX_NU_STRAIN:g}")
     else:
         thickness = t.number("thickness", 1.0, low=0.0, low_open=True)
         model = "section"

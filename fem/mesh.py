@@ -21,9 +21,7 @@ from .case import Case
 from .errors import SolveError
 from .geometry import build_member, gmsh_session, name_boundaries
 from .plane import Patch, check_mechanism, domain_polygon, patches, reentrant_corners
-from .sizing import estimate_dofs
-
-GRADING = 0.5  # largest growth of element size per unit distance from a refinement
+from .sizing import GRADING, estimate_dofs  # GRADING: size growth per unit distance
 
 __all__ = ["MemberMesh", "mesh_member", "estimate_dofs", "level_size"]
 

@@ -389,12 +389,12 @@ def check_mechanism(case: Case, supports: list[Patch]) -> None:
         free.append("x (no support fixes x)")
     if not ys:
         free.append("y (no support fixes y)")
-    if xs and ys:
-        spread_x = max(p[1] for p in xs) - min(p[1] for p in xs)
-        spread_y = max(p[0] for p in ys) - min(p[0] for p in ys)
-        if spread_x <= tiny and spread_y <= tiny:
-            free.append(f"rotation (every restraint passes through ({ys[0][0]:g}, "
-                        f"{xs[0][1]:g}))")
+    one_y = not xs or max(p[1] for p in xs) - min(p[1] for p in xs) <= tiny
+    one_x = not ys or max(p[0] for p in ys) - min(p[0] for p in ys) <= tiny
+    if one_y and one_x and (xs or ys):
+        px = f"{ys[0][0]:g}" if ys else "any x"
+        py = f"{xs[0][1]:g}" if xs else "any y"
+        free.append(f"rotation (every restraint passes through ({px}, {py}))")
     if free:
         raise CaseError(case.file, "supports",
                         f"the supports cannot stop rigid motion in {' and '.join(free)}; "
@@ -471,8 +471,11 @@ def validate_geometry(case: Case) -> None:
         x0, _, x1, _ = dom.bounds
         eps = MIN_FEATURE * (x1 - x0)
         for i, x in enumerate(case.check.cuts):
-            if not x0 + eps < x < x1 - eps:
+            if not x0 < x < x1:
                 raise CaseError(f, f"check.cuts.{i}", f"{x:g} is outside the member "
                                                       f"({x0:g} < x < {x1:g})")
+            if not x0 + eps < x < x1 - eps:
+                raise CaseError(f, f"check.cuts.{i}", f"{x:g} is within {eps:.3g} of an end of "
+                                                      "the member; move it inside")
             if not cut_strips(g, x, 1.0, dom):
                 raise CaseError(f, f"check.cuts.{i}", f"no material at x = {x:g}")

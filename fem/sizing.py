@@ -8,7 +8,8 @@ Triangles per unit area are `DENSITY / h^2` for element size h (gmsh's Frontal-D
 meshes measured here: 2.3 triangles per h^2, an equilateral triangle of side h has area
 0.433 h^2). The refinements of `fem.mesh._size_fields` (patch ends, re-entrant corners,
 holes, fillets, `mesh.refine`) grade h linearly from a fine size to the global size over a
-distance; their extra triangles are integrated in closed form and added. Overlapping
+distance (at most `GRADING` per unit distance); their extra triangles are integrated in
+closed form and added. Overlapping
 refinements are counted twice, so the estimate errs on the large side there. A P2 mesh has
 about 2 nodes per triangle (vertices + edge midpoints), a P1 mesh 1/2; a beam has 2 dofs
 per node, a section's warping problem 1.
@@ -21,10 +22,12 @@ import math
 from .case import BeamGeometry, Case, SectionGeometry
 from .errors import CaseError
 
-__all__ = ["estimate_dofs", "check_size", "DENSITY", "BOUNDARY"]
+__all__ = ["estimate_dofs", "check_size", "DENSITY", "BOUNDARY", "GRADING"]
 
 DENSITY = 2.3    # triangles per (element size)^2 of area
 BOUNDARY = 1.15  # boundary layers make small meshes a little denser than the area says
+GRADING = 0.5    # largest growth of element size per unit distance from a refinement (the
+                 # mesher's size fields use it too: fem.mesh imports it from here)
 
 
 def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
@@ -36,6 +39,7 @@ def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
     """
     if h0 >= H or d1 <= 0:
         return 0.0
+    d1 = max(d1, d0 + (H - h0) / GRADING)  # as fem.mesh grades its size fields
     inner = math.pi * ((r + d0) ** 2 - r**2) * (1 / h0**2 - 1 / H**2)
     L = d1 - d0
     if L <= 0:

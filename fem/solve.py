@@ -90,11 +90,12 @@ def element_stiffness(basis: Basis, lam: float, mu: float,
     With scalar shape functions phi_a and displacement components i, j, the bilinear form
     int t (2 mu eps(u) : eps(v) + lam div u div v) gives the entries
 
-        K[(a, i), (b, j)] = int t (lam d_i phi_a d_j phi_b + mu d_j phi_a d_i phi_b
-                                   + mu delta_ij grad phi_a . grad phi_b),
+        K[(a, i), (b, j)] = lam P[(i, a), (j, b)] + mu P[(j, a), (i, b)]
+                            + mu delta_ij (P[(0, a), (0, b)] + P[(1, a), (1, b)])
 
-    so one batched product P = int t d_i phi_a d_j phi_b per element (over the basis's own
-    quadrature and mapping, curved elements included) yields all of them.
+    of the gradient products P[(i, a), (j, b)] = int t d_i phi_a d_j phi_b. P comes from one
+    batched product over the basis's own quadrature and mapping (curved elements included);
+    the element matrix is then a fixed linear map of P (`_stiffness_map`).
 
     Parameters
     ----------
@@ -116,14 +117,23 @@ def element_stiffness(basis: Basis, lam: float, mu: float,
     nel, nq = grad.shape[2], grad.shape[3]
     g = grad.transpose(2, 0, 1, 3).reshape(nel, 2 * ns, nq)          # row i * ns + a
     w = basis.dx * np.asarray(thickness, float)[:, None]
-    P = np.matmul(g * w[:, None, :], g.transpose(0, 2, 1)).reshape(nel, 2, ns, 2, ns)
-    laplace = P[:, 0, :, 0, :] + P[:, 1, :, 1, :]
-    Ke = np.empty((nel, ns, 2, ns, 2))
-    for i in range(2):
-        for j in range(2):
-            Ke[:, :, i, :, j] = lam * P[:, i, :, j, :] + mu * P[:, j, :, i, :]
-        Ke[:, :, i, :, i] += mu * laplace
-    return Ke.reshape(nel, 2 * ns, 2 * ns)
+    P = np.matmul(g * w[:, None, :], g.transpose(0, 2, 1)).reshape(nel, -1)
+    return (P @ _stiffness_map(ns, lam, mu)).reshape(nel, 2 * ns, 2 * ns)
+
+
+def _stiffness_map(ns: int, lam: float, mu: float) -> np.ndarray:
+    """The constant matrix taking flattened P to the flattened element matrix (see above)."""
+    nb = 2 * ns
+    a, i, b, j = (x.ravel() for x in np.meshgrid(np.arange(ns), np.arange(2), np.arange(ns),
+                                                 np.arange(2), indexing="ij"))
+    k = (2 * a + i) * nb + 2 * b + j                                   # entry of K
+    C = np.zeros((nb * nb, nb * nb))
+    C[(i * ns + a) * nb + j * ns + b, k] += lam
+    C[(j * ns + a) * nb + i * ns + b, k] += mu
+    d = i == j
+    for c in range(2):
+        C[(c * ns + a[d]) * nb + c * ns + b[d], k[d]] += mu
+    return C
 
 
 def assemble_stiffness(basis: Basis, Ke: np.ndarray) -> sp.csr_matrix:

@@ -24,8 +24,12 @@ from fem.case import Case, parse_case
 from fem.errors import CaseError, SolveError
 
 RUN_DOFS = 30_000  # dof limit of the coarse runs (the size guard refuses anything larger)
+# numpy warnings (division by zero, overflow) flagged real bugs: here they are failures
+pytestmark = pytest.mark.filterwarnings("error::RuntimeWarning")
 EDGES = ("left", "right", "top", "bottom")
-FAST = settings(max_examples=100, deadline=None,
+# the default run is derandomized (the same ~100 inputs every time: no flaky CI); the slow
+# run draws new ones each time and keeps failures in hypothesis' example database
+FAST = settings(max_examples=100, deadline=None, derandomize=True,
                 suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
 SLOW = settings(max_examples=1000, deadline=None,
                 suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])

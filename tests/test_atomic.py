@@ -1,0 +1,189 @@
+"""Data safety: results.json is only ever an earlier complete result or a new complete one.
+
+A real run is killed with SIGKILL while it writes its outputs (the moment is found by
+watching the output folder for the run's staging folder, not by the clock); afterwards the
+earlier results.json must be intact. Failures injected at each step of the writing (a
+figure that fails, a rename that fails midway, a write that fails before its rename) must
+leave the earlier result untouched and no temporary files behind. A later run replaces the
+result with a complete one and sweeps the staging folder the killed run left.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import signal
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import pytest
+from conftest import ROOT
+
+from fem.api import check, write_outputs
+from fem.case import parse_case
+
+ENV = {"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin", "MPLBACKEND": "Agg"}
+CASE = """
+schema = 1
+name = "{name}"
+kind = "beam"
+[material]
+E = 200000.0
+nu = 0.3
+thickness = 10.0
+[geometry]
+shape = "rectangle"
+length = 300.0
+depth = 100.0
+[[supports]]
+edge = "left"
+fix = "xy"
+[[loads]]
+edge = "right"
+force = [0.0, {force}]
+[mesh]
+size = {size}
+levels = {levels}
+"""
+CONTRACT_KEYS = {"schema", "case", "kind", "units", "mesh", "equilibrium", "cuts", "peak",
+                 "convergence", "verdict", "findings", "timings"}
+
+
+def _earlier(out: Path) -> bytes:
+    """A complete result of an earlier, different run in `out`; its bytes."""
+    case = parse_case(CASE.format(name="earlier", force=-1000.0, size=50.0, levels=1), "e.toml")
+    write_outputs(check(case), out, report=False)
+    return (out / "results.json").read_bytes()
+
+
+def _complete(data: bytes) -> dict:
+    d = json.loads(data)
+    assert CONTRACT_KEYS <= set(d) and d["verdict"] in ("holds", "unsafe", "inconclusive")
+    return d
+
+
+def _only_old_or_new(out: Path, old: bytes) -> str:
+    data = (out / "results.json").read_bytes()
+    if data == old:
+        return "old"
+    assert _complete(data)["case"] == "later"
+    return "new"
+
+
+def test_kill_while_writing_keeps_the_earlier_result(tmp_path: Path):
+    """SIGKILL as soon as the run's staging folder holds a file: results.json is the old one
+    (or, had the run already finished, a complete new one: never a partial file)."""
+    out = tmp_path / "out"
+    old = _earlier(out)
+    case = tmp_path / "later.toml"
+    case.write_text(CASE.format(name="later", force=-10000.0, size=20.0, levels=1),
+                    encoding="utf-8")
+    mid_write = False
+    for _attempt in range(3):
+        p = subprocess.Popen([sys.executable, "-m", "fem.cli", "run", str(case), "--out",
+                              str(out), "--quiet"], env=ENV, cwd=tmp_path,
+                             stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+        try:
+            while p.poll() is None:
+                stages = [s for s in out.glob(f".staging-{p.pid}-*") if any(s.iterdir())]
+                if stages:
+                    p.send_signal(signal.SIGKILL)
+                    break
+                time.sleep(0.002)
+        finally:
+            p.wait(timeout=120)
+        if p.returncode == -signal.SIGKILL:
+            mid_write = any(out.glob(f".staging-{p.pid}-*"))
+            assert _only_old_or_new(out, old) == "old"
+        else:
+            assert p.returncode == 0 and _only_old_or_new(out, old) == "new"
+            old = (out / "results.json").read_bytes()
+        if mid_write:
+            break
+    assert mid_write, "the run was never caught while writing"
+    assert json.loads(old)["case"] in ("earlier", "later")
+
+
+def test_next_run_replaces_with_a_complete_result_and_sweeps_stale_staging(tmp_path: Path):
+    out = tmp_path / "out"
+    old = _earlier(out)
+    dead = subprocess.run([sys.executable, "-c", "import os; print(os.getpid())"],
+                          capture_output=True, text=True).stdout.strip()
+    stale = out / f".staging-{dead}-abc"
+    stale.mkdir()
+    (stale / "shear-contour.png").write_bytes(b"half a figure")
+    case = parse_case(CASE.format(name="later", force=-10000.0, size=50.0, levels=1), "l.toml")
+    write_outputs(check(case), out, report=False)
+    assert _only_old_or_new(out, old) == "new"
+    assert not stale.exists() and not list(out.glob(".staging-*"))
+
+
+def test_figure_failure_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
+    """A failure after some outputs are staged: nothing moves, the stage is removed."""
+    import fem.figures
+
+    out = tmp_path / "out"
+    old = _earlier(out)
+    before = sorted(p.name for p in out.iterdir())
+    case = parse_case(CASE.format(name="later", force=-10000.0, size=50.0, levels=1), "l.toml")
+    res = check(case)
+
+    def half_then_fail(res, stage):
+        (Path(stage) / "shear-contour.png").write_bytes(b"partial")
+        raise RuntimeError("the plotting failed")
+
+    monkeypatch.setattr(fem.figures, "write_figures", half_then_fail)
+    with pytest.raises(RuntimeError, match="plotting failed"):
+        write_outputs(res, out, report=True)
+    assert (out / "results.json").read_bytes() == old
+    assert sorted(p.name for p in out.iterdir()) == before
+
+
+def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
+    """results.json is moved last: a crash while moving the other files leaves the old one
+    (and the stage is cleaned up)."""
+    import fem.outputs
+    from fem.results import write_json
+
+    out = tmp_path / "out"
+    old = _earlier(out)
+    case = parse_case(CASE.format(name="later", force=-10000.0, size=50.0, levels=1), "l.toml")
+    res = check(case)
+    real_replace = os.replace
+    moved: list[str] = []
+
+    def replace(src, dst):
+        if Path(dst).parent == out:  # a move from the stage into the output folder
+            if Path(dst).name == "results.json":
+                raise OSError("disk full")
+            moved.append(Path(dst).name)
+        real_replace(src, dst)
+
+    monkeypatch.setattr(fem.outputs.os, "replace", replace)
+    with pytest.raises(OSError, match="disk full"):
+        with fem.outputs.staged_output(out) as stage:
+            write_json(res.result, stage / "results.json")
+            for name in ("z-figure.png", "a-figure.png", "report.html"):
+                (stage / name).write_bytes(b"new")
+    assert sorted(moved) == ["a-figure.png", "report.html", "z-figure.png"]
+    assert (out / "results.json").read_bytes() == old
+    assert not list(out.glob(".staging-*"))
+
+
+def test_failed_write_leaves_no_partial_file(tmp_path: Path, monkeypatch):
+    """atomic_write fails before its rename: the old file stands, no temporary is left."""
+    import fem.results
+
+    target = tmp_path / "results.json"
+    target.write_bytes(b'{"complete": true}')
+
+    def no_sync(fd):
+        raise OSError("I/O error")
+
+    monkeypatch.setattr(fem.results.os, "fsync", no_sync)
+    with pytest.raises(OSError):
+        fem.results.atomic_write(target, b'{"half": ')
+    assert target.read_bytes() == b'{"complete": true}'
+    assert [p.name for p in tmp_path.iterdir()] == ["results.json"]

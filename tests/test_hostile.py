@@ -1,0 +1,380 @@
+"""Hostile input: a corpus of bad case files through the real CLI, and the guards behind it.
+
+`tests/bad_cases/` holds one small TOML per bad case and `expected.toml` with, for each, the
+exit code and the message fragments the one line on stderr must contain. The corpus runs
+through `fem.cli.main` exactly as `python -m fem.cli run FILE --out DIR` does, all files in
+one subprocess (one interpreter start for ~80 files); a few of them also run as separate
+`python -m fem.cli` processes to show the two agree. The rest of the file checks the guards
+the corpus relies on: the size guard refuses before gmsh starts and its estimate is within
+a factor 1.5 of real dof counts, mechanisms are told apart from stable layouts, gmsh and
+solver failures are explained, internal errors exit 1 with a log, outputs stay inside the
+output folder and case files are data, never code.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import subprocess
+import sys
+import tomllib
+from pathlib import Path
+
+import pytest
+from conftest import ROOT
+
+from fem.case import parse_case
+from fem.errors import CaseError, SolveError
+
+CORPUS = Path(__file__).parent / "bad_cases"
+EXPECTED = tomllib.loads((CORPUS / "expected.toml").read_text(encoding="utf-8"))
+ENV = {"PYTHONPATH": str(ROOT), "PATH": "/usr/bin:/bin", "MPLBACKEND": "Agg"}
+
+DRIVER = """
+import contextlib, io, json, sys
+from fem.cli import main
+out = {}
+for stem, path, folder in json.load(sys.stdin):
+    err = io.StringIO()
+    with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
+        try:
+            rc = main(["run", path, "--out", folder, "--quiet"])
+        except SystemExit as exc:
+            rc = exc.code
+    out[stem] = {"rc": rc, "stderr": err.getvalue()}
+print(json.dumps(out))
+"""
+
+GOOD = """
+schema = 1
+name = "good"
+title = "{title}"
+kind = "beam"
+[material]
+E = 200000.0
+nu = 0.3
+thickness = 10.0
+[geometry]
+shape = "rectangle"
+length = 300.0
+depth = 100.0
+{extra}
+[[supports]]
+{support}
+[[loads]]
+edge = "right"
+force = [0.0, -10000.0]
+[mesh]
+size = {size}
+levels = 1
+"""
+
+
+def good(title: str = "ok", extra: str = "", size: float = 50.0,
+         support: str = 'edge = "left"\nfix = "xy"') -> str:
+    return GOOD.format(title=title, extra=extra, size=size, support=support)
+
+
+@pytest.fixture(scope="module")
+def corpus_runs(tmp_path_factory) -> dict[str, dict]:
+    """Every corpus file through the CLI's main, in one subprocess."""
+    outs = tmp_path_factory.mktemp("corpus-out")
+    jobs = [(stem, str(CORPUS / f"{stem}.toml"), str(outs / stem)) for stem in EXPECTED]
+    r = subprocess.run([sys.executable, "-c", DRIVER], input=json.dumps(jobs), text=True,
+                       capture_output=True, env=ENV, cwd=outs, timeout=600)
+    assert r.returncode == 0, r.stderr[-3000:]
+    runs = json.loads(r.stdout)
+    for stem, _, folder in jobs:
+        runs[stem]["wrote"] = sorted(str(p.relative_to(folder)) for p in Path(folder).rglob("*")
+                                     ) if Path(folder).exists() else []
+    return runs
+
+
+def test_corpus_lists_every_file_and_is_large_enough():
+    files = {p.stem for p in CORPUS.glob("*.toml") if p.name != "expected.toml"}
+    assert files == set(EXPECTED), files ^ set(EXPECTED)
+    assert len(files) >= 30
+    for stem, e in EXPECTED.items():
+        assert e["exit"] in (1, 2) and e["message"], stem
+
+
+@pytest.mark.parametrize("stem", sorted(EXPECTED))
+def test_bad_case(stem: str, corpus_runs):
+    """Exit code as expected, one line on stderr naming the file and the fragments, no
+    traceback, and nothing written to the output folder."""
+    run, want = corpus_runs[stem], EXPECTED[stem]
+    lines = run["stderr"].strip().splitlines()
+    assert run["rc"] == want["exit"], run["stderr"]
+    assert len(lines) == 1, run["stderr"]
+    assert "Traceback" not in run["stderr"]
+    assert f"{stem}.toml" in lines[0]
+    for fragment in want["message"]:
+        assert fragment in lines[0], (fragment, lines[0])
+    assert run["wrote"] == [], run["wrote"]
+
+
+def test_separate_processes_agree_with_the_batch(corpus_runs, tmp_path: Path):
+    """`python -m fem.cli run` as its own process gives the same exit code and line."""
+    stems = ["toml-syntax", "unknown-top-key", "mechanism-one-point", "too-many-dofs",
+             "section-tube-wall"]
+    procs = {s: subprocess.Popen([sys.executable, "-m", "fem.cli", "run",
+                                  str(CORPUS / f"{s}.toml"), "--out", str(tmp_path / s)],
+                                 stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                                 env=ENV, cwd=tmp_path) for s in stems}
+    for s, p in procs.items():
+        out, err = p.communicate(timeout=120)
+        assert p.returncode == corpus_runs[s]["rc"], err
+        assert err == corpus_runs[s]["stderr"]
+        assert out == ""
+
+
+# --- the size guard ---------------------------------------------------------------------------
+
+def test_huge_model_is_refused_before_gmsh_starts(monkeypatch):
+    """The estimate runs while the case is read: gmsh is never started."""
+    import gmsh
+
+    def refuse(*args, **kwargs):
+        raise AssertionError("gmsh must not start for a refused model")
+
+    monkeypatch.setattr(gmsh, "initialize", refuse)
+    with pytest.raises(CaseError) as err:
+        parse_case(good(size=0.01), "huge.toml")
+    msg = str(err.value)
+    assert "mesh.max_dofs" in msg and "2,000,000" in msg and "dofs" in msg
+    estimate = int(msg.split("about ")[1].split(" dofs")[0].replace(",", ""))
+    assert estimate > 2_000_000
+    # a finer size asked for later (one level of a study) is refused by the mesher's guard
+    from fem.api import check
+
+    case = parse_case(good(), "later.toml")
+    with pytest.raises(CaseError, match="max_dofs"):
+        check(case.with_mesh(size=0.01))
+
+
+def test_refused_levels_name_the_finest_mesh():
+    with pytest.raises(CaseError, match=r"finest mesh \(level 6"):
+        parse_case(good(size=2.0).replace("levels = 1", "levels = 6"), "levels.toml")
+
+
+@pytest.mark.parametrize("extra, support, size, order", [
+    ("", 'edge = "left"\nfix = "xy"', 10.0, 2),
+    ("[[geometry.holes]]\ncenter = [150.0, 50.0]\nradius = 20.0", 'edge = "left"\nfix = "xy"',
+     10.0, 2),
+    ("[[geometry.cutouts]]\ncorner = [0.0, 70.0]\nsize = [60.0, 40.0]\nfillet = 8.0",
+     'edge = "left"\nfix = "xy"', 10.0, 2),
+    ("", 'at = [0.0, 0.0]\nfix = "xy"\n[[supports]]\nat = [0.0, 100.0]\nfix = "x"', 10.0, 1),
+])
+def test_dof_estimate_is_within_a_factor_of_the_real_count(extra, support, size, order):
+    """Estimate against the dofs of the real mesh: within a factor 1.5 (measured 0.9-1.2)."""
+    from fem.mesh import estimate_dofs, mesh_member
+
+    text = good(extra=extra, size=size, support=support).replace(
+        "levels = 1", f"levels = 1\norder = {order}")
+    if "[[geometry.holes]]" in extra:
+        text += "[[mesh.refine]]\nat = [300.0, 100.0]\nradius = 15.0\nsize = 2.0\n"
+    case = parse_case(text, "est.toml")
+    mm = mesh_member(case)
+    m = mm.finder_mesh
+    real = 2 * (m.nvertices + (m.facets.shape[1] if order == 2 else 0))
+    assert 1 / 1.5 < estimate_dofs(case, size) / real < 1.5
+
+
+# --- mechanisms -------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("support, free", [
+    ('at = [0.0, 0.0]\nfix = "y"\n[[supports]]\nat = [300.0, 0.0]\nfix = "y"\n'
+     '[[supports]]\nat = [0.0, 100.0]\nfix = "x"', None),
+    ('edge = "left"\nfix = "x"\n[[supports]]\nat = [0.0, 0.0]\nfix = "y"', None),
+    ('edge = "bottom"\nfix = "xy"', None),
+    ('edge = "bottom"\nfix = "y"', "x"),
+    ('at = [0.0, 50.0]\nfix = "xy"', "rotation"),
+    ('edge = "left"\nfix = "x"', "y"),
+    ('edge = "left"\nfix = "y"', r"x \(no support fixes x\) and rotation"),
+])
+def test_mechanism_check_tells_stable_from_free(support, free):
+    """Restraints along x act on horizontal lines, along y on vertical ones: the member can
+    turn only if every line meets in one point; it slides if a direction has none."""
+    from fem.plane import check_mechanism, patches
+
+    case = parse_case(good(support=support), "m.toml")
+    sup, _ = patches(case)
+    if free is None:
+        check_mechanism(case, sup)
+    else:
+        with pytest.raises(CaseError, match=f"rigid motion in {free}"):
+            check_mechanism(case, sup)
+
+
+def test_singular_solve_is_caught(monkeypatch):
+    """With the mechanism check bypassed, a free member gives a solve that does not satisfy
+    K u = f (SuperLU does not always see the singularity): the residual check explains it."""
+    import fem.mesh
+    import fem.solve
+
+    monkeypatch.setattr(fem.mesh, "check_mechanism", lambda *a: None)
+    monkeypatch.setattr(fem.solve, "check_mechanism", lambda *a: None)
+    case = parse_case(good(support='at = [0.0, 50.0]\nfix = "xy"'), "s.toml")
+    with pytest.raises(SolveError, match="singular"):
+        fem.solve.solve_member(case, fem.mesh.mesh_member(case))
+
+
+def test_non_finite_solve_is_caught(monkeypatch):
+    import numpy as np
+
+    import fem.mesh
+    import fem.solve
+
+    def nan_solver(A, b, method="direct", modes=None):
+        return np.full_like(b, np.nan), 0
+
+    monkeypatch.setattr(fem.solve, "solve_linear", nan_solver)
+    case = parse_case(good(), "n.toml")
+    with pytest.raises(SolveError, match="non-finite"):
+        fem.solve.solve_member(case, fem.mesh.mesh_member(case))
+
+
+# --- gmsh failures ----------------------------------------------------------------------------
+
+def test_gmsh_failure_is_explained_and_other_errors_are_not_hidden(monkeypatch):
+    import gmsh
+
+    from fem.mesh import mesh_member
+
+    case = parse_case(good(), "g.toml")
+
+    def gmsh_fails(dim):
+        raise Exception("Unable to recover the edge 12 (1/2)")  # how gmsh raises
+
+    monkeypatch.setattr(gmsh.model.mesh, "generate", gmsh_fails)
+    with pytest.raises(SolveError, match="gmsh could not build or mesh.*recover the edge"):
+        mesh_member(case)
+
+    def our_bug(dim):
+        raise KeyError("not a gmsh error")
+
+    monkeypatch.setattr(gmsh.model.mesh, "generate", our_bug)
+    with pytest.raises(KeyError):
+        mesh_member(case)
+
+
+def test_folded_curved_elements_are_unfolded_or_explained(monkeypatch):
+    """A hole far smaller than the elements once folded a curved P2 element (negative
+    Jacobian; found by the fuzzer) and skfem's inverse map failed. A folded mesh goes
+    through gmsh's high-order optimisation; if it stays folded the run stops in words."""
+    import gmsh
+
+    import fem.mesh
+
+    case = parse_case(good(extra="[[geometry.holes]]\ncenter = [150.0, 50.0]\nradius = 5.0"),
+                      "fold.toml")
+    calls: list[str] = []
+    optimize = gmsh.model.mesh.optimize
+    monkeypatch.setattr(gmsh.model.mesh, "optimize",
+                        lambda how: calls.append(how) or optimize(how))
+    seq = iter([-0.5, 0.2])
+    monkeypatch.setattr(fem.mesh, "_min_jacobian", lambda: next(seq))
+    assert fem.mesh.mesh_member(case).curved and calls == ["HighOrder"]
+    seq = iter([-0.5, -0.1])
+    with pytest.raises(SolveError, match="folded elements"):
+        fem.mesh.mesh_member(case)
+
+
+# --- exit codes, logs, output folder ----------------------------------------------------------
+
+def test_internal_error_exits_1_with_a_log_and_keeps_results(tmp_path: Path, monkeypatch,
+                                                             capsys):
+    import fem.api
+    from fem.cli import main
+
+    case = tmp_path / "good.toml"
+    case.write_text(good(), encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / "results.json").write_text('{"earlier": true}', encoding="utf-8")
+
+    def boom(*a, **k):
+        raise RuntimeError("kaboom in the middle")
+
+    monkeypatch.setattr(fem.api, "check", boom)
+    assert main(["run", str(case), "--out", str(out)]) == 1
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "internal error" in err[0] and "shearcheck-error.log" in err[0]
+    log = (out / "shearcheck-error.log").read_text(encoding="utf-8")
+    assert "Traceback" in log and "kaboom in the middle" in log
+    assert (out / "results.json").read_text(encoding="utf-8") == '{"earlier": true}'
+
+
+def test_internal_error_while_reading_is_logged_too(tmp_path: Path, monkeypatch, capsys):
+    import fem.case
+    from fem.cli import main
+
+    def boom(path):
+        raise RuntimeError("reader broke")
+
+    monkeypatch.setattr(fem.case, "load_case", boom)
+    assert main(["run", str(tmp_path / "any.toml"), "--out", str(tmp_path / "o")]) == 1
+    assert "reader broke" in (tmp_path / "o" / "shearcheck-error.log").read_text()
+    assert len(capsys.readouterr().err.strip().splitlines()) == 1
+
+
+def test_default_output_folder_is_out_slash_name_and_nothing_leaks(tmp_path: Path,
+                                                                    monkeypatch):
+    """Without --out the outputs go to ./out/<name>; the name cannot hold a path (the corpus
+    refuses '../../etc' and 'a/b'), so nothing is written anywhere else."""
+    from fem.cli import main
+
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "c.toml").write_text(good(), encoding="utf-8")
+    assert main(["run", "c.toml", "--no-report", "--quiet"]) == 0
+    written = sorted(str(p.relative_to(tmp_path)) for p in tmp_path.rglob("*") if p.is_file())
+    assert written == ["c.toml", os.path.join("out", "good", "results.json")]
+
+
+def test_case_file_is_data_not_code(tmp_path: Path, monkeypatch):
+    """Strings that look like code stay strings: nothing is evaluated or run."""
+    from fem.cli import main
+
+    monkeypatch.chdir(tmp_path)
+    title = "__import__('os').system('touch pwned') $(touch pwned2) {{0.__class__}}"
+    (tmp_path / "c.toml").write_text(good(title=title), encoding="utf-8")
+    assert main(["run", "c.toml", "--out", "o", "--no-report", "--quiet"]) == 0
+    d = json.loads((tmp_path / "o" / "results.json").read_text(encoding="utf-8"))
+    assert d["title"] == title
+    assert not (tmp_path / "pwned").exists() and not (tmp_path / "pwned2").exists()
+
+
+def test_out_that_is_a_file_is_bad_input(tmp_path: Path, capsys):
+    from fem.cli import main
+
+    (tmp_path / "c.toml").write_text(good(), encoding="utf-8")
+    (tmp_path / "f").write_text("not a folder", encoding="utf-8")
+    assert main(["run", str(tmp_path / "c.toml"), "--out", str(tmp_path / "f")]) == 2
+    assert "not a folder" in capsys.readouterr().err
+    assert (tmp_path / "f").read_text(encoding="utf-8") == "not a folder"
+
+
+# --- messages ---------------------------------------------------------------------------------
+
+def test_messages_point_at_the_line():
+    """Bad values name the line they are written on, missing keys the line of their table."""
+    text = good(extra="[[geometry.holes]]\ncenter = [150.0, 50.0]\nradius = -3.0")
+    with pytest.raises(CaseError) as err:
+        parse_case(text, "l.toml")
+    line = next(i for i, s in enumerate(text.splitlines(), 1) if s.startswith("radius"))
+    assert err.value.line == line and f"l.toml:{line}: geometry.holes.0.radius" in str(err.value)
+    with pytest.raises(CaseError) as err:
+        parse_case(text.replace("radius = -3.0", "diameter = 6.0"), "l.toml")
+    header = next(i for i, s in enumerate(text.splitlines(), 1) if s == "[[geometry.holes]]")
+    assert err.value.line == header and "not known: diameter" in err.value.message
+
+
+def test_key_lines_follow_tables_arrays_and_multiline_values():
+    from fem.reader import key_lines
+
+    text = ('a = 1\npoints = [\n  [0.0, 1.0],\n  [2.0, 3.0]\n]\n[geometry]\nb = "x = ["\n'
+            '[[geometry.holes]]\nc = 1\n[[geometry.holes]]\nc = 2\n[mesh]\nsize = 1\n')
+    lines = key_lines(text)
+    assert lines["points"] == 2 and lines["geometry.b"] == 7
+    assert lines["geometry.holes.0.c"] == 9 and lines["geometry.holes.1.c"] == 11
+    assert lines["mesh.size"] == 13 and "0.0, 1.0" not in "".join(lines)
