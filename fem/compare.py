@@ -149,6 +149,8 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
     f = level.field
     S, L = case.units.stress, case.units.length
     governing = max((c.tau_max_hand for c in cuts), default=0.0)
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    depth = dom.bounds[3] - dom.bounds[1]  # the band under a patch: at most a tenth of it
     patches = list(zip(level.mm.supports, case.supports, strict=True))
     patches += list(zip(level.mm.loads, case.loads, strict=True))
     for p, spec in patches:
@@ -157,7 +159,7 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
         xs = sorted(q[0] for q in p.ends)
         y = p.ends[0][1]
         near = ((f.p[0] >= xs[0]) & (f.p[0] <= xs[-1])
-                & (np.abs(f.p[1] - y) <= 0.25 * p.length))
+                & (np.abs(f.p[1] - y) <= min(0.25 * p.length, 0.1 * depth)))
         if not near.any():
             continue
         syy = np.abs(f.nodal["syy"][near])

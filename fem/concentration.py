@@ -65,11 +65,10 @@ from shapely.geometry import Point, box
 
 from classical.bending import principal_stresses, von_mises_plane
 from classical.coefficients import kirsch_hole_edge_extremes, kt_net_howland
-from classical.strips import StripSection
 
 from .case import BeamGeometry, Case
 from .convergence import ConvergenceInputError, growth_exponent, williams_lambda
-from .hand import CutHand, beam_model, hand_at_cut
+from .hand import CutHand, hand_at_cut, member_model
 from .level import ExcludedZone, Level
 from .plane import ARC_SEGMENTS, cut_strips, domain_polygon, outline_polygon, reentrant_corners
 from .recovery import PointLocator
@@ -275,14 +274,8 @@ def _hand(case: Case, level: Level, x: float, y: np.ndarray,
     strips = cut_strips(g, x, t, dom)  # type: ignore[arg-type]
     if not strips:
         return None
-    whole = domain_polygon(case.geometry)  # type: ignore[arg-type]
-    mid = cut_strips(case.geometry, 0.5 * (whole.bounds[0] + whole.bounds[2]), t,  # type: ignore
-                     whole) or strips
-    ref = StripSection(tuple((s.y0, s.y1, s.t) for s in mid))
-    E = case.material.E
-    model = beam_model(case, level.mm.supports, level.mm.loads, axis_y=ref.centroid,
-                       EA=E * ref.area, EI=E * ref.inertia,
-                       stations=[c.x for c in level.cuts_fe])  # the model of run_level
+    model = level.model or member_model(case, level.mm.supports, level.mm.loads,
+                                        [c.x for c in level.cuts_fe])
     return hand_at_cut(case, model, x, strips, y)
 
 

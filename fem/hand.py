@@ -24,7 +24,7 @@ from .case import Case
 from .errors import SolveError
 from .plane import Patch, Strip
 
-__all__ = ["CutHand", "beam_model", "hand_at_cut", "total_load"]
+__all__ = ["CutHand", "beam_model", "member_model", "hand_at_cut", "total_load"]
 
 
 @dataclass(frozen=True)
@@ -90,6 +90,26 @@ def beam_model(case: Case, supports: list[Patch], loads: list[Patch], axis_y: fl
         except MechanismError:
             raise SolveError("the supports, idealised as beam supports, cannot carry the "
                              "loads by statics; the hand side is undefined") from None
+
+
+def member_model(case: Case, supports: list[Patch], loads: list[Patch],
+                 stations: list[float]) -> BeamModel:
+    """`beam_model` with the axis, EA and EI of the section at mid-length (gross section;
+    EI only matters for indeterminate layouts)."""
+    from classical.strips import StripSection
+
+    from .plane import cut_strips, domain_polygon
+
+    g = case.geometry
+    dom = domain_polygon(g)  # type: ignore[arg-type]
+    t = case.material.thickness
+    mid = cut_strips(g, 0.5 * (dom.bounds[0] + dom.bounds[2]), t, dom)  # type: ignore[arg-type]
+    if not mid:  # a void at mid-length: take the first cut that has material
+        mid = next(s for x in stations if (s := cut_strips(g, x, t, dom)))  # type: ignore
+    ref = StripSection(tuple((s.y0, s.y1, s.t) for s in mid))
+    E = case.material.E
+    return beam_model(case, supports, loads, axis_y=ref.centroid, EA=E * ref.area,
+                      EI=E * ref.inertia, stations=stations)
 
 
 def _bounds(case: Case) -> tuple[float, float, float, float]:

@@ -10,10 +10,8 @@ from pathlib import Path
 
 import numpy as np
 
-from classical.strips import StripSection
-
 from .case import Case
-from .hand import beam_model, hand_at_cut, total_load
+from .hand import hand_at_cut, member_model, total_load
 from .level import cut_positions
 from .outputs import staged_output
 from .plane import cut_strips, domain_polygon, patches
@@ -32,11 +30,7 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
     dom = domain_polygon(g)  # type: ignore[arg-type]
     sup, lds = patches(case, dom)
     xs = cut_positions(case, sup, lds)
-    mid = cut_strips(g, 0.5 * (dom.bounds[0] + dom.bounds[2]),  # type: ignore[arg-type]
-                     case.material.thickness, dom)
-    ref = StripSection(tuple((s.y0, s.y1, s.t) for s in mid))
-    model = beam_model(case, sup, lds, axis_y=ref.centroid, EA=case.material.E * ref.area,
-                       EI=case.material.E * ref.inertia, stations=xs)
+    model = member_model(case, sup, lds, stations=xs)
     L, F, S = case.units.length, case.units.force, case.units.stress
     lines = [f"Hand calculation: {case.title} ({case.name})",
              f"Units: {L}, {F}; stress {S}. Method: {case.check.method}.",

@@ -12,9 +12,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from classical.beam1d import BeamModel
+
 from .case import Case
 from .cuts import CutFE, automatic_cuts, sample_cut
-from .hand import CutHand, beam_model, hand_at_cut
+from .hand import CutHand, hand_at_cut, member_model
 from .mesh import MemberMesh, mesh_member
 from .plane import Patch, cut_strips, domain_polygon
 from .recovery import PointLocator, StressField, recover
@@ -42,6 +44,7 @@ class Level:
     cuts_hand: list[CutHand]
     peaks: dict[str, tuple[float, tuple[float, float]]]
     seconds_post: float
+    model: BeamModel | None = None   # the hand side's statics model
 
 
 def cut_positions(case: Case, sup: list[Patch], lds: list[Patch]) -> list[float]:
@@ -115,14 +118,7 @@ def run_level(case: Case, size: float, xs: list[float] | None = None) -> Level:
     dom = domain_polygon(g)  # type: ignore[arg-type]
     xs = xs if xs is not None else cut_positions(case, mm.supports, mm.loads)
     strips_at = {x: cut_strips(g, x, case.material.thickness, dom) for x in xs}  # type: ignore
-    mid = cut_strips(g, 0.5 * (dom.bounds[0] + dom.bounds[2]),  # type: ignore[arg-type]
-                     case.material.thickness, dom) or next(iter(strips_at.values()))
-    from classical.strips import StripSection
-
-    ref = StripSection(tuple((s.y0, s.y1, s.t) for s in mid))
-    model = beam_model(case, mm.supports, mm.loads, axis_y=ref.centroid,
-                       EA=case.material.E * ref.area, EI=case.material.E * ref.inertia,
-                       stations=xs)
+    model = member_model(case, mm.supports, mm.loads, stations=xs)
     cuts_fe, cuts_hand = [], []
     vmax = max(abs(model.forces(x)[0]) for x in xs)
     for x in xs:
@@ -134,7 +130,7 @@ def run_level(case: Case, size: float, xs: list[float] | None = None) -> Level:
         cuts_hand.append(hd)
     pk = peaks(field, excluded_zones(case, mm.supports, mm.loads))
     return Level(size=size, mm=mm, sol=sol, field=field, cuts_fe=cuts_fe, cuts_hand=cuts_hand,
-                 peaks=pk, seconds_post=time.perf_counter() - t0)
+                 peaks=pk, seconds_post=time.perf_counter() - t0, model=model)
 
 
 def nearest_station(x: float, stations: list[tuple[str, float, float]]) -> tuple[str, float]:

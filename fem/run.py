@@ -111,7 +111,11 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
             if is_singular(sizes, vals):
                 singular_at.append((c, vals))
                 quantities[f"corner ({c.at[0]:g}, {c.at[1]:g}) von_mises"] = _study(sizes, vals)
-    gov = quantities[f"cut x={cuts[g].x:g} tau_max"]
+    # governing: the worst cut's shear; with no hand shear anywhere (a member in pure
+    # tension) the domain's principal-stress peak
+    no_shear = all(c.ratio is None for c in cuts)
+    gov_name = "peak principal" if no_shear else f"cut x={cuts[g].x:g} tau_max"
+    gov = quantities[gov_name]
     S, L = case.units.stress, case.units.length
     for c, vals in singular_at:
         growth = vals[-1] / vals[-2] if vals[-2] else math.inf
@@ -152,7 +156,9 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     conv = ConvergenceResult(
         sizes=sizes, tau_max=gov["values"], observed_order=gov["observed_order"],
         extrapolated=gov["extrapolated"], gci=gov["gci"], singular=bool(singular_at),
-        converged=converged, quantity=f"tau_max at the governing cut x = {cuts[g].x:g}",
+        converged=converged,
+        quantity=("peak max principal stress (no hand shear at any cut)" if no_shear
+                  else f"tau_max at the governing cut x = {cuts[g].x:g}"),
         dofs=[lv.sol.basis.N for lv in levels], quantities=quantities)
     timings = Timings(mesh=sum(lv.mm.seconds for lv in levels),
                       assemble=sum(lv.sol.seconds_assemble for lv in levels),

@@ -180,6 +180,39 @@ def test_dof_estimate_is_within_a_factor_of_the_real_count(extra, support, size,
     assert 1 / 1.5 < estimate_dofs(case, size) / real < 1.5
 
 
+SECTION = """
+schema = 1
+name = "sec"
+kind = "section"
+[material]
+E = 200000.0
+nu = 0.3
+[geometry]
+{geo}
+[loads]
+shear = [0.0, 1000.0]
+[mesh]
+size = {size}
+"""
+
+
+@pytest.mark.parametrize("geo, size", [
+    ('shape = "circle"\ndiameter = 40.0', 2.0),
+    ('shape = "i"\ndepth = 40.0\nflange_width = 20.0\nflange_thickness = 3.0\n'
+     'web_thickness = 2.0', 1.0),
+    ('shape = "channel"\ndepth = 40.0\nflange_width = 15.0\nflange_thickness = 3.0\n'
+     'web_thickness = 3.0\nroot_radius = 2.0', 1.0),
+])
+def test_section_dof_estimate_is_within_a_factor_of_the_real_count(geo, size):
+    from fem.section_mesh import mesh_section, section_shape
+    from fem.sizing import estimate_dofs
+
+    case = parse_case(SECTION.format(geo=geo, size=size), "sec.toml")
+    g = case.geometry
+    real = mesh_section(section_shape(g.shape, **g.params), size, 2).mesh.doflocs.shape[1]
+    assert 1 / 1.5 < estimate_dofs(case, size) / real < 1.5
+
+
 # --- mechanisms -------------------------------------------------------------------------------
 
 @pytest.mark.parametrize("support, free", [
