@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable
 from dataclasses import dataclass, field
 
 import gmsh
@@ -52,7 +53,8 @@ def level_size(case: Case, level: int) -> float:
     return case.mesh.size / 2.0 ** level
 
 
-def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch]) -> None:
+def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
+                 background: Callable[[], int] | None = None) -> None:
     """Distance/threshold refinement at patch ends, holes, fillets and corners."""
     g = case.geometry
     fields = []
@@ -102,6 +104,8 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch]) ->
                   0.0, 2.0 * rmin)
     for r in case.mesh.refine:
         threshold([r.at], None, r.size * scale, r.radius, 2 * r.radius)
+    if background is not None:  # e.g. fem.adapt.size_field: one more field in the minimum
+        fields.append(background())
     if fields:
         m = f.add("Min")
         f.setNumbers(m, "FieldsList", fields)
@@ -128,8 +132,13 @@ def _depth(case: Case) -> float:
     return y1 - y0
 
 
-def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
-    """Mesh the member at element size `size` (default: mesh.size) and hand it over."""
+def mesh_member(case: Case, size: float | None = None,
+                background: Callable[[], int] | None = None) -> MemberMesh:
+    """Mesh the member at element size `size` (default: mesh.size) and hand it over.
+
+    `background`, if given, is called inside the gmsh session and returns the tag of one more
+    size field; the element size is the smallest of all fields (adaptive refinement).
+    """
     size = case.mesh.size if size is None else size
     g = case.geometry
     estimate = estimate_dofs(case, size)
@@ -149,7 +158,7 @@ def mesh_member(case: Case, size: float | None = None) -> MemberMesh:
         try:
             surf_names = build_member(g, sup, lds)  # type: ignore[arg-type]
             groups = name_boundaries(g, sup, lds, tol)  # type: ignore[arg-type]
-            _size_fields(case, size, sup, lds)
+            _size_fields(case, size, sup, lds, background)
             gmsh.option.setNumber("Mesh.Algorithm", 6)
             gmsh.model.mesh.generate(2)
             if case.mesh.order == 2 and _curved(case):  # straight: P2 on the linear mesh

@@ -95,7 +95,8 @@ def outline_polygon(g: BeamGeometry) -> Polygon:
     # tolerance 0 drops only exactly collinear vertices: one edge per straight stretch
     poly = Polygon(g.points)
     if poly.is_valid:
-        poly = shapely.simplify(poly, 0.0)
+        with np.errstate(all="ignore"):  # denormal coordinates overflow GEOS' tolerance
+            poly = shapely.simplify(poly, 0.0)
     return shapely.geometry.polygon.orient(poly, 1.0)
 
 

@@ -35,6 +35,8 @@ class MeshInfo:
     size: float
     order: int
     curved: bool = False
+    solver: str = "direct"     # "direct" (SuperLU) or "amg" (AMG-preconditioned CG)
+    iterations: int = 0        # CG iterations of the finest level (0 for direct)
 
 
 @dataclass

@@ -34,9 +34,9 @@ __all__ = ["Solution", "lame", "solve_member", "check_mechanism", "RESIDUAL_LIMI
            "solve_linear"]
 
 RESIDUAL_LIMIT = 1e-6  # |K u - f| / |f| on the free dofs above this: the solve is not trusted
-# free dofs up to which the direct solve is used, above it AMG-CG: measured (demo bracket,
-# bench/bench_speed.py) the direct solve is faster up to about 500k dofs, AMG-CG beyond
-# (1M dofs: 35 s against 46 s CPU) and needs less than half the memory (2.8 against 6.6 GiB)
+# free dofs up to which the direct solve is used, above it AMG-CG. Measured on the demo
+# bracket (bench/bench_speed.py): at 400k dofs direct 12 s against AMG-CG 17 s CPU; at 1M
+# both about 48 s, but AMG-CG peaks at 2.8 GiB against 4.5 GiB
 DIRECT_LIMIT = 500_000
 CG_TOLERANCE = 1e-10  # relative residual at which conjugate gradients stop
 CG_MAXITER = 500      # measured 28-34 iterations from 100k to 1M dofs

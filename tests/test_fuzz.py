@@ -4,14 +4,17 @@ Hypothesis builds plausible beam and section cases (random outlines, holes, cut-
 placements, loads, mesh settings), then mutates them: wrong types, out-of-range and
 non-finite numbers, missing keys, unknown keys, odd geometry, and raw character edits of
 the TOML text. For every input the Python layer must either return a `Case` or raise
-`CaseError`; a beam case that passes validation must then run at a coarse mesh (one level,
-a small dof limit) to a result whose JSON is valid, or stop with `CaseError`/`SolveError`.
-Any other exception is a bug in the code under test. The default run tries about 100
-inputs per property; `pytest -m slow` runs the same properties with 1,000 and more.
+`CaseError`; a case that passes validation must then run at a coarse mesh (one level, a
+small dof limit) to a result whose JSON is valid, or stop with `CaseError`/`SolveError`
+(every accepted beam; a third of the accepted sections in the default run, all of them in
+the slow one). Any other exception, and any numpy RuntimeWarning, is a bug in the code
+under test. The default run tries 100 inputs per property (derandomized: the same ones
+each time); `pytest -m slow` draws 1,000 new ones per property.
 """
 
 from __future__ import annotations
 
+import copy
 import json
 import math
 from typing import Any
@@ -121,11 +124,12 @@ def _bbox(geo: dict[str, Any]) -> tuple[float, float]:
 
 
 @st.composite
-def placements(draw, geo: dict[str, Any], allow_hole: bool) -> dict[str, Any]:
+def placements(draw, geo: dict[str, Any], allow_hole: bool,
+               ways: tuple[str, ...] = ("edge", "at", "point", "from", "hole")) -> dict[str, Any]:
     a, b = draw(st.sampled_from(_edges(geo)))
     s0, s1 = sorted((draw(unit), draw(unit)))
     at = [a[0] + s0 * (b[0] - a[0]), a[1] + s0 * (b[1] - a[1])]
-    way = draw(st.sampled_from(["edge", "at", "point", "from", "hole"]))
+    way = draw(st.sampled_from(ways))
     if way == "edge" and geo["shape"] == "rectangle":
         return {"edge": draw(st.sampled_from(EDGES))}
     if way == "hole" and allow_hole and geo.get("holes"):
@@ -168,14 +172,17 @@ def beam_cases(draw) -> dict[str, Any]:
     }
     if draw(st.booleans()):
         case["material"]["model"] = draw(st.sampled_from(["plane-stress", "plane-strain"]))
-    for _ in range(draw(st.integers(1, 3))):
+    if draw(st.integers(0, 3)) > 0:  # mostly one clamped stretch first: a stable layout
+        s = draw(placements(geo, allow_hole=False, ways=("edge", "at", "from")))
+        case["supports"].append({**s, "fix": "xy"})
+    for _ in range(draw(st.integers(1 - len(case["supports"]), 2))):
         s = draw(placements(geo, allow_hole=False))
         s["fix"] = draw(st.sampled_from(["xy", "xy", "x", "y"]))
         case["supports"].append(s)
-    for _ in range(draw(st.integers(1, 2))):
+    for j in range(draw(st.integers(1, 2))):
         ld = draw(placements(geo, allow_hole=True))
         ld["force"] = [draw(st.sampled_from([0.0, 0.0, 1000.0, -5000.0])),
-                       draw(st.sampled_from([0.0, -1000.0, -1000.0, 20000.0]))]
+                       draw(st.sampled_from([-1000.0, 20000.0] + [0.0, -1000.0] * j))]
         if "hole" not in ld and ld.get("width", 1.0) > 0 and draw(st.booleans()):
             ld["distribution"] = "parabolic"
         case["loads"].append(ld)
@@ -258,7 +265,7 @@ def mutated(draw, base) -> dict[str, Any]:
         parent = _parent(d, path)
         op = draw(st.sampled_from(["replace", "replace", "scale", "delete", "extra", "typo"]))
         if op == "replace":
-            parent[path[-1]] = draw(st.sampled_from(HOSTILE))
+            parent[path[-1]] = copy.deepcopy(draw(st.sampled_from(HOSTILE)))
         elif op == "scale" and isinstance(parent[path[-1]], int | float) \
                 and not isinstance(parent[path[-1]], bool):
             parent[path[-1]] = parent[path[-1]] * draw(st.sampled_from(
@@ -266,8 +273,9 @@ def mutated(draw, base) -> dict[str, Any]:
         elif op == "delete":
             del parent[path[-1]]
         elif op == "extra" and isinstance(parent, dict):
-            parent[draw(st.sampled_from(["extra", "fix", "edge", "radius", "size", "tickness",
-                                         "E", "points"]))] = draw(st.sampled_from(HOSTILE))
+            key = draw(st.sampled_from(["extra", "fix", "edge", "radius", "size", "tickness",
+                                        "E", "points"]))
+            parent[key] = copy.deepcopy(draw(st.sampled_from(HOSTILE)))
         elif op == "typo" and isinstance(parent, dict) and isinstance(path[-1], str):
             parent[path[-1][:-1] + "x"] = parent.pop(path[-1])
     return d
