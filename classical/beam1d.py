@@ -136,6 +136,11 @@ def _frame_k(L: float, EA: float, EI: float) -> np.ndarray:
     ])
 
 
+def _node(nodes: np.ndarray, x: float) -> int:
+    """Index of the node nearest to x."""
+    return int(np.argmin(np.abs(nodes - x)))
+
+
 def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list[LineLoad],
                EA: float = 1.0, EI: float = 1.0, axis_y: float = 0.0,
                stations: list[float] | None = None) -> BeamModel:
@@ -147,6 +152,9 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
     xs = {s.x for s in supports} | {p.x for p in points}
     xs |= {v for ln in lines for v in (ln.x0, ln.x1)} | set(stations or [])
     nodes = np.array(sorted(xs))
+    if len(nodes) > 1:  # stations a hair apart (round-off) are one node, not a 0-length element
+        span = nodes[-1] - nodes[0]
+        nodes = nodes[np.concatenate([[True], np.diff(nodes) > 1e-9 * max(span, 1e-300)])]
     n = len(nodes)
     if n < 2:
         nodes = np.array([nodes[0], nodes[0] + 1.0])
@@ -170,11 +178,11 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
             f[idx[[0, 3]]] += Nu @ q * ln.Fx
             f[idx[[2, 5]]] += -(ln.y - axis_y) * ln.Fx * (Nu @ q)
     for p in points:
-        i = int(np.searchsorted(nodes, p.x))
+        i = _node(nodes, p.x)
         f[3 * i:3 * i + 3] += [p.Fx, p.Fy, p.C - (p.y - axis_y) * p.Fx]
     fixed = []
     for s in supports:
-        i = int(np.searchsorted(nodes, s.x))
+        i = _node(nodes, s.x)
         fixed += [3 * i + k for k, name in enumerate(("u", "v", "rot")) if name in s.restrains]
     fixed = sorted(set(fixed))
     free = np.setdiff1d(np.arange(3 * n), fixed)
@@ -186,7 +194,7 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
     r = K @ u - f
     reactions = []
     for s in supports:
-        i = int(np.searchsorted(nodes, s.x))
+        i = _node(nodes, s.x)
         mine = [k for k, name in enumerate(("u", "v", "rot")) if name in s.restrains]
         vals = [0.0, 0.0, 0.0]
         for k in mine:
@@ -195,7 +203,7 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
     # several supports at one node share its reaction: give it to the first
     seen: set[int] = set()
     for j, s in enumerate(supports):
-        i = int(np.searchsorted(nodes, s.x))
+        i = _node(nodes, s.x)
         if i in seen:
             reactions[j] = (0.0, 0.0, 0.0)
         seen.add(i)

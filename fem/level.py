@@ -121,10 +121,12 @@ def run_level(case: Case, size: float, xs: list[float] | None = None) -> Level:
     model = member_model(case, mm.supports, mm.loads, stations=xs)
     cuts_fe, cuts_hand = [], []
     vmax = max(abs(model.forces(x)[0]) for x in xs)
+    load_scale = sum(float(np.hypot(*ld.force)) for ld in case.loads)
+    carries_shear = vmax > 1e-9 * load_scale  # else a pure-tension member: keep every cut
     for x in xs:
         fe = sample_cut(x, strips_at[x], field, locator, size)
         hd = hand_at_cut(case, model, x, strips_at[x], fe.y)
-        if case.check.cuts is None and abs(hd.V) <= 1e-9 * vmax:
+        if case.check.cuts is None and carries_shear and abs(hd.V) <= 1e-9 * vmax:
             continue  # an automatic cut in a load-free overhang compares nothing
         cuts_fe.append(fe)
         cuts_hand.append(hd)

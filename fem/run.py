@@ -76,9 +76,8 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
                       work[k])
             lv = run_level(case, level_size(case, k), xs)
             if not lv.cuts_fe:
-                raise SolveError("no cut of the member carries shear: the loads go straight "
-                                 "into the supports, so there is nothing to compare; move a "
-                                 "load or a support, or name the cuts in check.cuts")
+                raise SolveError("no cut meets material carrying the loads; name the cuts "
+                                 "in check.cuts")
             xs = [c.x for c in lv.cuts_fe]
             levels.append(lv)
     finally:

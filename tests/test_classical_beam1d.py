@@ -77,3 +77,15 @@ def test_determinacy_flag() -> None:
              for n, (s, p, ln, _) in CASES.items()}
     assert flags["cantilever_tip"] and flags["ss_udl"]
     assert not flags["propped_udl"] and not flags["fixed_point"]
+
+
+def test_station_a_hair_from_a_support_is_merged():
+    """A station 1e-10 from a support (round-off of an automatic cut) must not form a
+    zero-length element: the cantilever's reactions stay R = P, C = P L (statics)."""
+    from classical.beam1d import BeamSupport, PointLoad, solve_beam
+
+    m = solve_beam([BeamSupport(0.0, frozenset({"u", "v", "rot"}))],
+                   [PointLoad(x=300.1234567891, Fy=-10.0)], [], EA=1e6, EI=1e9,
+                   stations=[1e-10, 150.0, 300.1234567891 - 1e-10])
+    assert m.reactions[0][1] == pytest.approx(10.0, rel=1e-9)
+    assert m.reactions[0][2] == pytest.approx(10.0 * 300.1234567891, rel=1e-9)
