@@ -9,6 +9,7 @@ point patch), ``hole-k`` (curves of each hole). Must be called inside `gmsh_sess
 from __future__ import annotations
 
 import math
+import threading
 from collections.abc import Iterator
 from contextlib import contextmanager
 
@@ -17,22 +18,41 @@ import gmsh
 from .case import BeamGeometry, Cutout, Hole, Zone
 from .plane import Patch, outline_polygon
 
-__all__ = ["gmsh_session", "build_member", "MATERIAL"]
+__all__ = ["gmsh_session", "set_background", "build_member", "name_boundaries", "MATERIAL"]
 
 MATERIAL = "material"
 
 
+_GMSH_LOCK = threading.Lock()
+
+
 @contextmanager
-def gmsh_session() -> Iterator[None]:
-    """One gmsh instance for the block; no SIGINT handler (safe in worker threads)."""
-    gmsh.initialize(interruptible=False)
-    try:
-        gmsh.option.setNumber("General.Terminal", 0)
-        gmsh.option.setNumber("General.Verbosity", 1)
-        gmsh.model.add("member")
-        yield
-    finally:
-        gmsh.finalize()
+def gmsh_session(name: str = "member") -> Iterator[None]:
+    """One gmsh user at a time in this process (gmsh is not thread-safe); no SIGINT
+    handler, so it is safe in worker threads; always finalised."""
+    with _GMSH_LOCK:
+        if gmsh.isInitialized():
+            raise RuntimeError("gmsh is already in use in this process (one user at a time)")
+        gmsh.initialize(interruptible=False)
+        try:
+            gmsh.option.setNumber("General.Terminal", 0)
+            gmsh.option.setNumber("General.Verbosity", 1)
+            gmsh.model.add(name)
+            yield
+        finally:
+            gmsh.finalize()
+
+
+def set_background(fields: list[int], size: float) -> None:
+    """The minimum of the given size fields as the background mesh, nothing else sizing."""
+    f = gmsh.model.mesh.field
+    if fields:
+        m = f.add("Min")
+        f.setNumbers(m, "FieldsList", fields)
+        f.setAsBackgroundMesh(m)
+    for opt in ("MeshSizeExtendFromBoundary", "MeshSizeFromPoints", "MeshSizeFromCurvature"):
+        gmsh.option.setNumber(f"Mesh.{opt}", 0)
+    gmsh.option.setNumber("Mesh.MeshSizeMax", size)
 
 
 def _outline(g: BeamGeometry) -> int:

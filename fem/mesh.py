@@ -20,7 +20,7 @@ from skfem import MeshTri1, MeshTri2
 
 from .case import Case
 from .errors import SolveError
-from .geometry import build_member, gmsh_session, name_boundaries
+from .geometry import build_member, gmsh_session, name_boundaries, set_background
 from .plane import Patch, check_mechanism, domain_polygon, patches, reentrant_corners
 from .sizing import GRADING, estimate_dofs  # GRADING: size growth per unit distance
 
@@ -106,13 +106,7 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
         threshold([r.at], None, r.size * scale, r.radius, 2 * r.radius)
     if background is not None:  # e.g. fem.adapt.size_field: one more field in the minimum
         fields.append(background())
-    if fields:
-        m = f.add("Min")
-        f.setNumbers(m, "FieldsList", fields)
-        f.setAsBackgroundMesh(m)
-    for opt in ("MeshSizeExtendFromBoundary", "MeshSizeFromPoints", "MeshSizeFromCurvature"):
-        gmsh.option.setNumber(f"Mesh.{opt}", 0)
-    gmsh.option.setNumber("Mesh.MeshSizeMax", size)
+    set_background(fields, size)
 
 
 def _is_hole(g, tag: int) -> bool:

@@ -18,12 +18,10 @@ Adding a shape is one builder plus one registration line (:func:`register_shape`
 
 from __future__ import annotations
 
-import contextlib
 import inspect
 import math
-import threading
 import time
-from collections.abc import Callable, Iterator, Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 
 import gmsh
@@ -31,6 +29,8 @@ import numpy as np
 from skfem import MeshTri1, MeshTri2
 
 from classical.sections import Outline, section_outline
+
+from .geometry import gmsh_session, set_background
 
 __all__ = [
     "Ring",
@@ -42,7 +42,6 @@ __all__ = [
     "section_shape",
 ]
 
-_GMSH_LOCK = threading.Lock()
 
 
 @dataclass(frozen=True, eq=False)
@@ -250,21 +249,6 @@ class SectionMesh:
         return int(self.mesh.t.shape[1])
 
 
-@contextlib.contextmanager
-def _gmsh_session(name: str) -> Iterator[None]:
-    """One gmsh user at a time in this process; no SIGINT handler; always finalised."""
-    with _GMSH_LOCK:
-        if gmsh.isInitialized():
-            raise RuntimeError("gmsh is already in use in this process (one user at a time)")
-        gmsh.initialize(interruptible=False)
-        try:
-            gmsh.option.setNumber("General.Terminal", 0)
-            gmsh.model.add(name)
-            yield
-        finally:
-            gmsh.finalize()
-
-
 def _fillet(p: np.ndarray, k: int, r: float) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Tangent points on the incoming and outgoing edges and the centre of a fillet."""
     u = p[k - 1] - p[k]
@@ -340,13 +324,7 @@ def _size_fields(size: float, corners: list[int], arcs: list[int], radii: list[f
         f.setNumbers(d, "CurvesList", [arc])
         f.setNumber(d, "Sampling", 40)
         fields.append(_threshold(d, min(size, r / 3), size))
-    if fields:
-        m = f.add("Min")
-        f.setNumbers(m, "FieldsList", fields)
-        f.setAsBackgroundMesh(m)
-    for opt in ("MeshSizeExtendFromBoundary", "MeshSizeFromPoints", "MeshSizeFromCurvature"):
-        gmsh.option.setNumber(f"Mesh.{opt}", 0)
-    gmsh.option.setNumber("Mesh.MeshSizeMax", size)
+    set_background(fields, size)
 
 
 def _read(surface: int, order: int, groups: dict[str, list[int]]
@@ -427,7 +405,7 @@ def mesh_section(geometry: SectionShape, size: float, order: int = 2,
         raise ValueError(f"size must be > 0, got {size!r}")
     corner_size = size / 8 if corner_size is None else corner_size
     start = time.perf_counter()
-    with _gmsh_session(f"section-{geometry.shape}"):
+    with gmsh_session(f"section-{geometry.shape}"):
         occ = gmsh.model.occ
         loops, ring_curves, sharp, arcs, radii = [], [], [], [], []
         for ring in geometry.rings:

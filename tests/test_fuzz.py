@@ -25,6 +25,7 @@ from hypothesis import strategies as st
 
 from fem.case import Case, parse_case
 from fem.errors import CaseError, SolveError
+from fem.sweep import dumps_toml as to_toml  # the project's own TOML writer
 
 RUN_DOFS = 30_000  # dof limit of the coarse runs (the size guard refuses anything larger)
 # numpy warnings (division by zero, overflow) flagged real bugs: here they are failures
@@ -36,51 +37,6 @@ FAST = settings(max_examples=100, deadline=None, derandomize=True,
                 suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
 SLOW = settings(max_examples=1000, deadline=None,
                 suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large])
-
-
-# --- a small TOML writer for generated data ---------------------------------------------------
-
-def _key(k: str) -> str:
-    bare = k and all(c.isalnum() and c.isascii() or c in "-_" for c in k)
-    return k if bare else json.dumps(k)
-
-
-def _value(v: Any) -> str:
-    if isinstance(v, bool):
-        return "true" if v else "false"
-    if isinstance(v, int):
-        return str(v)
-    if isinstance(v, float):
-        if math.isnan(v):
-            return "nan"
-        if math.isinf(v):
-            return "inf" if v > 0 else "-inf"
-        return repr(v)
-    if isinstance(v, str):
-        return json.dumps(v)
-    if isinstance(v, list):
-        return "[" + ", ".join(_value(x) for x in v) + "]"
-    if isinstance(v, dict):
-        return "{" + ", ".join(f"{_key(k)} = {_value(x)}" for k, x in v.items()) + "}"
-    raise TypeError(type(v))
-
-
-def _is_tables(v: Any) -> bool:
-    return isinstance(v, list) and bool(v) and all(isinstance(x, dict) for x in v)
-
-
-def to_toml(d: dict[str, Any], prefix: str = "") -> str:
-    """TOML text for nested dicts and lists (arrays of tables as [[...]])."""
-    out = [f"{_key(k)} = {_value(v)}" for k, v in d.items()
-           if not isinstance(v, dict) and not _is_tables(v)]
-    for k, v in d.items():
-        path = f"{prefix}.{_key(k)}" if prefix else _key(k)
-        if isinstance(v, dict):
-            out += ["", f"[{path}]", to_toml(v, path)]
-        elif _is_tables(v):
-            for item in v:
-                out += ["", f"[[{path}]]", to_toml(item, path)]
-    return "\n".join(out)
 
 
 # --- generators ---------------------------------------------------------------------------------
