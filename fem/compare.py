@@ -101,10 +101,9 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
             name, dist = nearest_station(c.x, st)
             near = dist <= depth
             kind = "short-beam" if near else "shear-excess"
-            why = (f"the cut is {dist / depth:.2f} depths from the {name}, where plane sections "
-                   "do not stay plane and the shear formula's slender-beam assumption fails"
-                   if near else "the stress distribution over the cut departs from the "
-                   "hand method's assumption")
+            why = _why(name, dist, depth) if near else (
+                "the stress distribution over the cut departs from the hand method's "
+                "assumption")
             out.append(Finding(kind=kind, at=[c.x, c.y_at_tau_max_fe], ratio=_r(c.ratio),
                                message=(f"At x = {c.x:g} {L} the FE shear stress peaks at "
                                         f"{c.tau_max_fe:.4g} {S} (y = {c.y_at_tau_max_fe:.4g} "
@@ -141,6 +140,17 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
                                     f"{z.at[1]:.4g}) {L} are left out: {z.why} is an "
                                     "idealisation whose local stress has no finite limit.")))
     return out
+
+
+def _why(name: str, dist: float, depth: float) -> str:
+    """Plain-words cause of an excess near a station."""
+    where = (f"the cut crosses the extent of the {name}" if dist == 0.0
+             else f"the cut is {dist / depth:.2f} depths from the {name}")
+    if name.startswith(("hole", "cut-out", "zone")):
+        return (f"{where}, which concentrates the shear that the formula spreads as a "
+                "parabola over the section")
+    return (f"{where}, where plane sections do not stay plane and the shear formula's "
+            "slender-beam assumption fails")
 
 
 def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
