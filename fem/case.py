@@ -242,7 +242,7 @@ def _parse(text: str, file: str) -> Case:
     else:
         geometry = _section_geometry(top.table("geometry"))
         lt = top.table("loads")
-        shear = lt.point("shear")
+        shear = _force(lt, "shear")
         lt.close()
         if shear == (0.0, 0.0):
             raise lt.error("shear", "is zero; give a non-zero [Vx, Vy]")
@@ -399,7 +399,7 @@ def _support(t: Table) -> Support:
 
 def _load(t: Table) -> Load:
     where = _placement(t, allow_hole=True)
-    force = t.point("force")
+    force = _force(t, "force")
     dist = t.text("distribution", "cosine" if where.hole is not None else "uniform",
                   allowed=DISTRIBUTIONS)
     if where.hole is not None and dist != "cosine":
@@ -411,6 +411,18 @@ def _load(t: Table) -> Load:
                                       "give a width")
     t.close()
     return Load(where=where, force=force, distribution=dist, key=t.path)
+
+
+MIN_FORCE = 1e-30  # smaller non-zero force components are round-off, not loads
+
+
+def _force(t: Table, key: str) -> tuple[float, float]:
+    """A force pair [Fx, Fy]; components are 0 or at least MIN_FORCE in magnitude."""
+    f = t.point(key)
+    if any(0.0 < abs(v) < MIN_FORCE for v in f):
+        raise t.error(key, f"{list(f)}: a non-zero component must be at least {MIN_FORCE:g} "
+                           "in magnitude (smaller is round-off); use 0 for none")
+    return f
 
 
 def _section_geometry(t: Table) -> SectionGeometry:

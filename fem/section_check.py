@@ -252,7 +252,7 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
 
     # neutral-axis frame from the FE bending-rate coefficients, hand Q on the polygon
     Iinv = np.linalg.inv([[sol.Iyy, sol.Ixy], [sol.Ixy, sol.Ixx]])
-    ab = Iinv @ np.array(Vs)
+    ab = Iinv @ (np.array(Vs) / np.hypot(*Vs))  # direction only: no underflow for tiny V
     n = ab / np.linalg.norm(ab)
     d = np.array([n[1], -n[0]])
     phi = math.atan2(d[1], d[0])
