@@ -400,6 +400,9 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
 
     hand_scale = max([c.tau_method for c in fin.cuts_hand]
                      + [c.sigma_x_max for c in fin.cuts_hand] + [0.0])
+    depth = dom.bounds[3] - dom.bounds[1]
+    stress_ref = max(hand_scale, sum(float(np.hypot(*ld.force)) for ld in case.loads)
+                     / (case.material.thickness * depth))
     out = []
     for f in features(case):
         per = []
@@ -409,6 +412,8 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
         if per[-1] is None:
             continue
         pk = per[-1]
+        if abs(pk["peak"]) <= 1e-9 * stress_ref:
+            continue  # no stress to speak of here (e.g. loads straight into the supports)
         c = Concentration(feature=f, sizes=sizes, values=[], peak=pk["peak"], at=pk["at"],
                           tension=pk["tension"], compression=pk["compression"],
                           tau_peak=pk["tau"], tau_at=pk["tau_at"])
