@@ -114,7 +114,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
         out.append(Finding(kind="combined-stress", at=[c.x, c.y_at_tau_max_fe], ratio=_r(rv),
                            message=(f"At x = {c.x:g} {L} the FE von Mises stress reaches "
                                     f"{c.von_mises_max_fe:.4g} {S}, {100 * (rv - 1):.1f} % above "
-                                    f"the hand combination of sigma = N/A + M y/I and VQ/(Ib) "
+                                    f"the hand combination of σ = N/A + M y/I and VQ/(Ib) "
                                     f"({c.von_mises_max_hand:.4g} {S}); the worst cut of "
                                     "those not under a patch.")))
     out += _bearing(case, level, cuts)
@@ -184,7 +184,7 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
                      if nominal else "")
             out.append(Finding(kind="bearing", at=at, ratio=_r(peak / max(governing, 1e-300)),
                                message=(f"Under {p.name} ({xs[0]:g} to {xs[-1]:g} {L}) the "
-                                        f"bearing stress sigma_yy reaches {peak:.4g} {S}{extra},"
+                                        f"bearing stress σyy reaches {peak:.4g} {S}{extra},"
                                         f" more than the governing hand shear "
                                         f"{governing:.4g} {S}; a shear-only check does not "
                                         "cover it.")))

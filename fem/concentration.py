@@ -490,7 +490,7 @@ def concentration_findings(case: Case, items: list[Concentration]) -> list[Findi
         else:
             verdict = ("the hand shear check is unsafe here" if c.ratio > 1 + tol else
                        "within the hand value")
-            text += (f". The FE shear |tau_xy| there reaches {_fmt(c.tau_peak)} {S} at "
+            text += (f". The FE shear |τxy| there reaches {_fmt(c.tau_peak)} {S} at "
                      f"{_pt(c.tau_at)} {L}, {c.ratio:.3g} times the {method} value "
                      f"{_fmt(c.tau_nominal or 0.0)} {S}: {verdict}.")
         out.append(Finding(kind="concentration", at=list(c.at),
