@@ -67,7 +67,7 @@ def stations(case: Case, level: Level) -> list[tuple[str, float, float]]:
                         h.center[0] + h.radius))
         else:
             xs = [q[0] for q in p.ends]
-            out.append((f"{kind} {p.name}", min(xs), max(xs)))
+            out.append((p.name, min(xs), max(xs)))  # e.g. "load-0", "support-1"
     for k, h in enumerate(g.holes):
         out.append((f"hole {k}", h.center[0] - h.radius, h.center[0] + h.radius))
     for k, c in enumerate(g.cutouts):
@@ -144,9 +144,9 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
 
 def _why(name: str, dist: float, depth: float) -> str:
     """Plain-words cause of an excess near a station."""
-    where = (f"the cut crosses the extent of the {name}" if dist == 0.0
-             else f"the cut is {dist / depth:.2f} depths from the {name}")
-    if name.startswith(("hole", "cut-out", "zone")):
+    where = (f"the cut crosses the extent of {name}" if dist == 0.0
+             else f"the cut is {dist / depth:.2f} depths from {name}")
+    if name.startswith(("hole ", "cut-out ", "zone ")):
         return (f"{where}, which concentrates the shear that the formula spreads as a "
                 "parabola over the section")
     return (f"{where}, where plane sections do not stay plane and the shear formula's "
