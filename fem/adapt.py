@@ -135,11 +135,32 @@ class AdaptiveLevel:
         return float(math.sqrt(_areas(self.field.p, self.field.t).sum() / self.field.t.shape[1]))
 
 
+def next_size_field(case: Case, mm: MemberMesh, field: StressField,
+                    growth: float) -> Callable[[], int]:
+    """The size field for the next mesh: about `growth` times the elements of `mm`, sized
+    from its error estimate. Elements in the excluded zones (idealised supports and
+    load-patch ends, `fem.level.excluded_zones`) keep their size: their stresses are not
+    sought, and refining a singular point never ends."""
+    C_inv = compliance(case.material.E, case.material.nu, case.material.model)
+    eta = error_indicator(field, mm.thickness, C_inv)
+    centre = field.p[:, field.t].mean(axis=1)
+    frozen = np.zeros(field.t.shape[1], dtype=bool)
+    for z in excluded_zones(case, mm.supports, mm.loads):
+        frozen |= np.hypot(centre[0] - z.at[0], centre[1] - z.at[1]) <= z.radius
+    sizes = target_sizes(field.p, field.t, eta, growth * field.t.shape[1], mm.order, frozen)
+    return size_field(field.p, field.t, sizes)
+
+
+def representative_size(mm: MemberMesh) -> float:
+    """h = edge of the equilateral triangle of the mean element area (Celik et al. 2008 use
+    h = (A/N)^(1/2); the constant cancels in refinement ratios)."""
+    p, t = mm.finder_mesh.p, mm.finder_mesh.t
+    return float(np.sqrt(4.0 * _areas(p, t).mean() / math.sqrt(3.0)))
+
+
 def adaptive_levels(case: Case, levels: int, growth: float = 2.0) -> list[AdaptiveLevel]:
     """The case's own mesh, then `levels - 1` meshes, each with about `growth` times the
-    elements of the one before, sized from its error estimate. Elements in the excluded
-    zones (idealised supports and load-patch ends, `fem.level.excluded_zones`) keep their
-    size: their stresses are not sought, and refining a singular point never ends."""
+    elements of the one before (see `next_size_field`)."""
     C_inv = compliance(case.material.E, case.material.nu, case.material.model)
     out: list[AdaptiveLevel] = []
     background = None
@@ -151,11 +172,5 @@ def adaptive_levels(case: Case, levels: int, growth: float = 2.0) -> list[Adapti
         eta = error_indicator(field, mm.thickness, C_inv)
         out.append(AdaptiveLevel(mm=mm, sol=sol, field=field, eta=eta,
                                  peaks=peaks(field, zones)))
-        centre = field.p[:, field.t].mean(axis=1)
-        frozen = np.zeros(field.t.shape[1], dtype=bool)
-        for z in zones:
-            frozen |= np.hypot(centre[0] - z.at[0], centre[1] - z.at[1]) <= z.radius
-        sizes = target_sizes(field.p, field.t, eta, growth * field.t.shape[1], mm.order,
-                             frozen)
-        background = size_field(field.p, field.t, sizes)
+        background = next_size_field(case, mm, field, growth)
     return out

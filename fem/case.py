@@ -130,6 +130,7 @@ class MeshSpec:
     levels: int = 1
     max_dofs: int = 2_000_000
     refine: tuple[Refine, ...] = ()
+    adaptive: bool = False   # levels after the first refined by the error estimate (beams)
 
 
 @dataclass(frozen=True)
@@ -227,6 +228,9 @@ def _parse(text: str, file: str) -> Case:
     units = _units(top.table("units", None), top)
     material = _material(top.table("material"), kind)
     mesh = _mesh(top.table("mesh"))
+    if mesh.adaptive and kind != "beam":
+        raise CaseError(file, "mesh.adaptive", "adaptive refinement is for beam cases; "
+                                               "sections refine uniformly")
     check = _check(top.table("check", None), kind)
     if kind == "beam":
         geometry = _beam_geometry(top.table("geometry"))
@@ -299,6 +303,7 @@ def _mesh(t: Table) -> MeshSpec:
         raise t.error("order", f"must be 1 or 2, got {order}")
     levels = t.number("levels", 1, integer=True, low=1, high=8)
     max_dofs = t.number("max_dofs", 2_000_000, integer=True, low=1)
+    adaptive = t.flag("adaptive", False)
     refine = []
     for r in t.tables("refine"):
         refine.append(Refine(at=r.point("at"), radius=r.number("radius", low=0.0, low_open=True),
@@ -306,7 +311,7 @@ def _mesh(t: Table) -> MeshSpec:
         r.close()
     t.close()
     return MeshSpec(size=size, order=order, levels=levels, max_dofs=max_dofs,
-                    refine=tuple(refine))
+                    refine=tuple(refine), adaptive=adaptive)
 
 
 def _check(t: Table | None, kind: str) -> Check:

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
@@ -107,9 +108,10 @@ def peaks(field: StressField, zones: list[ExcludedZone]) -> dict[str, tuple[floa
     return out
 
 
-def run_level(case: Case, size: float, xs: list[float] | None = None) -> Level:
-    """The whole chain at one element size."""
-    mm = mesh_member(case, size)
+def run_level(case: Case, size: float, xs: list[float] | None = None,
+              background: Callable[[], int] | None = None) -> Level:
+    """The whole chain at one element size (optionally with an extra size field)."""
+    mm = mesh_member(case, size, background=background)
     sol = solve_member(case, mm)
     t0 = time.perf_counter()
     field = recover(sol, mm)

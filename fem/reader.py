@@ -88,6 +88,14 @@ class Table:
             raise self.error(name, f"{v!r} is not allowed; {describe}")
         return v
 
+    def flag(self, name: str, default: Any = REQUIRED) -> Any:
+        v = self.raw(name, default)
+        if v is default and name not in self.data:
+            return v
+        if not isinstance(v, bool):
+            raise self.error(name, f"must be true or false, got {_show(v)}")
+        return v
+
     def point(self, name: str, default: Any = REQUIRED) -> Any:
         v = self.raw(name, default)
         if v is default and name not in self.data:

@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .adapt import next_size_field, representative_size
 from .case import Case
 from .compare import beam_findings, cut_results, peak_result, verdict
 from .concentration import Concentration, concentration_findings, concentrations
@@ -24,7 +25,11 @@ from .plane import domain_polygon, reentrant_corners
 from .progress import Progress, as_progress
 from .results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
 
-__all__ = ["BeamRun", "check_beam", "GCI_LIMIT", "SETTLED"]
+__all__ = ["BeamRun", "check_beam", "GCI_LIMIT", "SETTLED", "ADAPT_GROWTH"]
+
+# elements of each adaptive level over the one before: h ratio sqrt(2.2) = 1.48, above the
+# 1.3 Celik et al. (2008) ask of a refinement; bench/bench_speed.py measured 2 and 1.7
+ADAPT_GROWTH = 2.2
 
 SETTLED = 0.005  # relative change between the two finest meshes taken as converged
 
@@ -70,15 +75,20 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     work = [estimate_dofs(case, level_size(case, k)) for k in range(n)]
     prog = as_progress(progress)
     prog.start(sum(work))
+    background = None  # adaptive levels: the size field from the previous level's estimate
     try:
         for k in range(n):
-            prog.step(f"level {k + 1}/{n}: size {level_size(case, k):g} {case.units.length}",
-                      work[k])
-            lv = run_level(case, level_size(case, k), xs)
+            size = case.mesh.size if case.mesh.adaptive else level_size(case, k)
+            prog.step(f"level {k + 1}/{n}: size {size:g} {case.units.length}"
+                      + (" (adaptive)" if case.mesh.adaptive and k else ""), work[k])
+            lv = run_level(case, size, xs, background)
             if not lv.cuts_fe:
                 raise SolveError("no cut meets material carrying the loads; name the cuts "
                                  "in check.cuts")
             xs = [c.x for c in lv.cuts_fe]
+            if case.mesh.adaptive:
+                lv.size = representative_size(lv.mm)  # what the GCI study compares
+                background = next_size_field(case, lv.mm, lv.field, ADAPT_GROWTH)
             levels.append(lv)
     finally:
         prog.close()
