@@ -53,6 +53,8 @@ from scipy.optimize import brentq
 __all__ = [
     "DEFAULT_FORMAL_ORDER",
     "GCI_LIMIT",
+    "SETTLED",
+    "accepted",
     "SAFETY_FACTOR_THREE_GRID",
     "SAFETY_FACTOR_TWO_GRID",
     "SINGULAR_SLOPE_THRESHOLD",
@@ -76,6 +78,12 @@ beam-theory shear formulas are themselves approximations at the few-percent leve
 load and material uncertainty, so a tighter limit would buy mesh cost without changing a
 verdict, while a looser one would let discretisation error mask a real discrepancy.
 """
+
+SETTLED: float = 0.005
+"""Relative change between the two finest levels below which a quantity counts as converged
+whatever its apparent order: there the level-to-level change is at the noise of stress
+sampling and the observed order means nothing (common practice)."""
+
 
 SAFETY_FACTOR_THREE_GRID: float = 1.25
 """Factor of safety on the GCI when the order is observed from three or more grids
@@ -524,3 +532,11 @@ def williams_lambda(angle_deg: float) -> float:
     else:
         return 1.0  # only lambda = 1 remains: the straight edge, bounded stress
     return float(brentq(_williams_residual, lo, hi, args=(alpha,), xtol=1e-14))
+
+
+def accepted(est: ConvergenceEstimate, limit: float = GCI_LIMIT,
+             settled: float = SETTLED) -> bool:
+    """The project's convergence rule: GCI within `limit` and converging monotonically
+    (`ConvergenceEstimate.converged`), or a change below `settled` between the finest two."""
+    small = est.approx_rel_error is not None and est.approx_rel_error <= settled
+    return est.converged(limit) or small

@@ -17,7 +17,7 @@ from .adapt import next_size_field, representative_size
 from .case import Case
 from .compare import beam_findings, cut_results, peak_result, verdict
 from .concentration import Concentration, concentration_findings, concentrations
-from .convergence import GCI_LIMIT, gci_study, is_singular
+from .convergence import GCI_LIMIT, SETTLED, accepted, gci_study, is_singular
 from .errors import SolveError
 from .level import Level, excluded_zones, run_level
 from .mesh import estimate_dofs, level_size
@@ -31,7 +31,6 @@ __all__ = ["BeamRun", "check_beam", "GCI_LIMIT", "SETTLED", "ADAPT_GROWTH"]
 # 1.3 Celik et al. (2008) ask of a refinement; bench/bench_speed.py measured 2 and 1.7
 ADAPT_GROWTH = 2.2
 
-SETTLED = 0.005  # relative change between the two finest meshes taken as converged
 
 
 @dataclass
@@ -48,13 +47,10 @@ def _study(sizes: list[float], values: list[float]) -> dict:
                 "converged": False, "singular": False}
     est = gci_study(sizes, values)
     singular = is_singular(sizes, values)
-    # below SETTLED the level-to-level change is at the noise of stress sampling, where the
-    # apparent order means nothing: such a quantity counts as converged (common practice)
-    settled = est.approx_rel_error is not None and est.approx_rel_error <= SETTLED
     return {"values": values, "observed_order": est.observed_order,
             "extrapolated": est.extrapolated, "gci": est.gci,
             "approx_rel_error": est.approx_rel_error,
-            "converged": (est.converged(GCI_LIMIT) or settled) and not singular,
+            "converged": accepted(est) and not singular,
             "singular": singular}
 
 

@@ -13,7 +13,7 @@ from pathlib import Path
 from typing import Any
 
 from .case import Case
-from .convergence import GCI_LIMIT, gci_study, is_singular
+from .convergence import GCI_LIMIT, accepted, gci_study, is_singular
 from .mesh import level_size
 from .results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
 from .section_check import SectionCheck, check_section
@@ -21,7 +21,6 @@ from .section_check import SectionCheck, check_section
 __all__ = ["check_section_case", "write_section_figures", "section_shear_figure",
            "section_profile_figure"]
 
-SETTLED = 0.005  # as fem.run.SETTLED: changes below this between the finest meshes
 
 
 def _levels(case: Case, progress: Callable[[str], None] | None) -> list[SectionCheck]:
@@ -56,11 +55,10 @@ def check_section_case(case: Case, progress: Callable[[str], None] | None = None
         est = gci_study(sizes, values)
         order, extrapolated, gci = est.observed_order, est.extrapolated, est.gci
         singular = len(levels) >= 3 and is_singular(sizes, values)
-        settled = est.approx_rel_error is not None and est.approx_rel_error <= SETTLED
-        converged = (est.converged(GCI_LIMIT) or settled) and not singular
+        converged = accepted(est) and not singular
         if singular:
             reg = gci_study(sizes, regular)
-            reg_ok = reg.converged(GCI_LIMIT) or (reg.approx_rel_error or 1.0) <= SETTLED
+            reg_ok = accepted(reg)
             if not any(f.kind == "singular" for f in findings):
                 findings.append(Finding(kind="singular", at=list(fin.tau_at), ratio=None,
                                         message=("The section peak grows with every "
