@@ -1,6 +1,6 @@
 """Section solve speed: torsion + both flexure problems at about 50k P2 dofs.
 
-Runs, in one process on the same mesh, (a) `fem.section_solve.solve_section` (one Laplacian
+Runs, in one process on the same mesh, (a) `fem.section.solve.solve_section` (one Laplacian
 assembly, one pinned factorisation reused for the three right-hand sides) and (b) a generic
 route: the saddle-point system with the Lagrange-multiplier row solved three times by
 scipy's default `spsolve` (SuperLU, COLAMD). Prints both times and their ratio.
@@ -22,8 +22,8 @@ from skfem.helpers import dot, grad
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from fem.section_mesh import mesh_section, section_shape  # noqa: E402
-from fem.section_solve import solve_section  # noqa: E402
+from fem.section.mesh import mesh_section, section_shape  # noqa: E402
+from fem.section.solve import solve_section  # noqa: E402
 
 
 @BilinearForm

@@ -9,15 +9,15 @@ It prints, all measured in this run:
 
 1. the same ~110k-dof P2 plane-stress mesh (the demo bracket, curved hole) solved by the
    generic route - `linear_elasticity` with the plane-stress lambda, `asm`, `condense`,
-   `skfem.solve` (SciPy's default `spsolve`) - and by `fem.solve.solve_member`; wall and CPU
+   `skfem.solve` (SciPy's default `spsolve`) - and by `fem.member.solve.solve_member`; wall and CPU
    time of assembly + solve, their ratio, and how far the two displacement fields differ;
 2. how assembly + solve and the whole level (mesh, solve, recovery) grow from 10k to 1M
    dofs, each size in a fresh child process with its peak memory (VmHWM, see
    `peak_memory_gib`), and the exponent of a log-log fit of time against dofs;
 3. (full run) the direct and the AMG solve forced at 400k and 1M dofs, to show the choice
-   of `fem.solve.DIRECT_LIMIT`;
+   of `fem.member.solve.DIRECT_LIMIT`;
 4. the wall time of `python -m fem.cli demo` and its phases from results.json;
-5. (full run) the dofs that adaptive refinement (`fem.adapt`) needs for the GCI of the peak
+5. (full run) the dofs that adaptive refinement (`fem.member.adapt`) needs for the GCI of the peak
    von Mises stress that the case's own levels reach, on a plate with a hole and a
    filleted cope.
 
@@ -44,7 +44,7 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from fem.case import load_case  # noqa: E402
-from fem.mesh import mesh_member  # noqa: E402
+from fem.member.mesh import mesh_member  # noqa: E402
 
 DEMO = ROOT / "fem" / "data" / "stub-bracket.toml"
 DOFS_AT_SIZE_1 = 113_068 * 2.5**2  # demo bracket: dofs ~ C / size^2 (measured)
@@ -74,7 +74,7 @@ def timed(fn, *args):
 
 def compare_routes(size: float, repeats: int) -> dict:
     """Part 1: both routes on one mesh, interleaved; fastest of `repeats` each."""
-    from fem.solve import solve_member
+    from fem.member.solve import solve_member
 
     case = load_case(DEMO)
     mm = mesh_member(case, size)
@@ -109,8 +109,8 @@ def peak_memory_gib() -> float:
 
 def child(size: float, solver: str) -> dict:
     """One level of the chain at `size` in this (fresh) process; times and peak memory."""
-    import fem.solve as fs
-    from fem.recovery import recover
+    import fem.member.solve as fs
+    from fem.member.recovery import recover
 
     if solver != "auto":
         fs.DIRECT_LIMIT = 0 if solver == "amg" else 10**12
@@ -139,12 +139,12 @@ def exponent(dofs: list[int], seconds: list[float]) -> float:
 def adaptive_vs_uniform(name: str, growths: tuple[float, ...] = (2.0, 1.7)) -> list[str]:
     """Part 5: dofs for the same GCI of the peak von Mises stress (outside the excluded
     zones), the case's own levels (every size halved) against adaptive refinement."""
-    from fem.adapt import adaptive_levels
+    from fem.case.sizing import level_size
     from fem.convergence import gci_study
-    from fem.level import excluded_zones, peaks
-    from fem.mesh import level_size
-    from fem.recovery import recover
-    from fem.solve import solve_member
+    from fem.member.adapt import adaptive_levels
+    from fem.member.level import excluded_zones, peaks
+    from fem.member.recovery import recover
+    from fem.member.solve import solve_member
 
     case = load_case(ROOT / "cases" / f"{name}.toml")
     sizes, values, dofs = [], [], []
@@ -225,7 +225,7 @@ def main(argv: list[str] | None = None) -> int:
           f"{exponent(n, cpu_total):.2f} cpu")
 
     if not args.quick:
-        print("\n3. solver choice (forced), DIRECT_LIMIT from fem.solve")
+        print("\n3. solver choice (forced), DIRECT_LIMIT from fem.member.solve")
         for target in (400e3, 1e6):
             for solver in ("direct", "amg"):
                 x = run_child(size_for(target), solver)
@@ -240,7 +240,7 @@ def main(argv: list[str] | None = None) -> int:
           f"post {d['post']:.2f} s (the rest is start-up and writing the report)")
 
     if not args.quick:
-        print("\n5. adaptive refinement (fem.adapt) against the case's own levels")
+        print("\n5. adaptive refinement (fem.member.adapt) against the case's own levels")
         for name in ("plate-hole-tension", "coped-beam-fillet"):
             print("\n".join(adaptive_vs_uniform(name)))
     print(f"load average at end: {os.getloadavg()[0]:.1f}")

@@ -7,9 +7,10 @@
 
 from __future__ import annotations
 
-from .api import CheckResult, check, write_outputs
-from .case import Case, load_case, parse_case
-from .errors import CaseError, SolveError
+from fem.api import CheckResult, check, write_outputs
+from fem.case.model import Case
+from fem.case.parse import load_case, parse_case
+from fem.errors import CaseError, SolveError
 
 __all__ = ["check", "write_outputs", "CheckResult", "Case", "load_case", "parse_case",
            "CaseError", "SolveError"]

@@ -2,6 +2,10 @@
 
 `CheckResult.data` holds exactly what results.json holds; `write(folder)` writes the output
 folder (results.json, figures and, unless `report=False`, the design note files).
+`hand_check` is `shearcheck hand`: the hand side alone.
+
+The member, section and report modules are imported where they are first needed, so that
+`import fem` and `shearcheck hand` start without gmsh, scikit-fem or matplotlib.
 """
 
 from __future__ import annotations
@@ -10,23 +14,28 @@ import json
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
-from .case import Case, load_case
-from .outputs import staged_output, summary_table
-from .progress import Progress
-from .results import Result, write_json
+from fem.case.model import Case
+from fem.case.parse import load_case
+from fem.output_folder import staged_output
+from fem.progress import Progress, as_progress
+from fem.results import Result, write_json
 
-__all__ = ["CheckResult", "check", "write_outputs"]
+if TYPE_CHECKING:  # the run types, for annotations only (no import at run time)
+    from fem.member.check import BeamRun
+    from fem.section.check import SectionRun
+
+__all__ = ["CheckResult", "check", "write_outputs", "hand_check"]
 
 
 @dataclass
 class CheckResult:
-    """A finished check: the result dataclass, its JSON form and what the figures need."""
+    """A finished check: the case, the result dataclass and the run behind the figures."""
 
     case: Case
     result: Result
-    run: Any = None              # fem.run.BeamRun or the section check object
+    run: BeamRun | SectionRun | None = None   # None for a result built by hand
     figures: list[Path] = field(default_factory=list)
 
     @property
@@ -38,6 +47,8 @@ class CheckResult:
         return self.result.verdict
 
     def summary(self) -> str:
+        from fem.report.console import summary_table
+
         return summary_table(self.data)
 
     def to_json(self) -> str:
@@ -46,37 +57,37 @@ class CheckResult:
     def plot_shear(self, path: str | Path) -> Path:
         """Shear contour (beam) or |tau| over the section (section) to `path`."""
         if self.case.kind == "beam":
-            from .plots import contour_figure
+            from fem.report.member_figures import contour_figure
 
             return contour_figure(self.case, self.run.finest, self.result.cuts, "txy",
                                   Path(path))
-        from .section_run import section_shear_figure
+        from fem.report.section_figures import section_shear_figure
 
-        return section_shear_figure(self, Path(path))
+        return section_shear_figure(self.case, self.run, Path(path))
 
     def plot_profile(self, index: int, path: str | Path) -> Path:
         """FE vs hand profile at cut `index` (beam) or along the neutral axis (section)."""
         if self.case.kind == "beam":
-            from .plots import profile_figure
+            from fem.report.member_figures import profile_figure
 
             return profile_figure(self.case, self.result.cuts[index], Path(path))
-        from .section_run import section_profile_figure
+        from fem.report.section_figures import section_profile_figure
 
-        return section_profile_figure(self, Path(path))
+        return section_profile_figure(self.case, self.run, Path(path))
 
     def plot_von_mises(self, path: str | Path) -> Path:
         """Von Mises contour of a beam check, with cuts, supports and loads, to `path`."""
         if self.case.kind != "beam":
             raise ValueError("the von Mises contour belongs to beam checks; a section check "
                              "carries its shear stresses only (plot_shear)")
-        from .plots import contour_figure
+        from fem.report.member_figures import contour_figure
 
         return contour_figure(self.case, self.run.finest, self.result.cuts, "von_mises",
                               Path(path))
 
     def plot_convergence(self, path: str | Path) -> Path:
         """The convergence figure (needs mesh.levels >= 2) to `path`."""
-        from .plots_convergence import convergence_figure, has_study
+        from fem.report.convergence_figure import convergence_figure, has_study
 
         if not has_study(self.result.convergence):
             raise ValueError("a convergence figure needs two or more mesh levels; set "
@@ -97,36 +108,36 @@ def check(path_or_case: str | Path | Case,
     """
     case = path_or_case if isinstance(path_or_case, Case) else load_case(path_or_case)
     if case.kind == "beam":
-        from .run import check_beam
+        from fem.member.check import check_beam
 
-        run = check_beam(case, progress=progress)
-        return CheckResult(case=case, result=run.result, run=run)
-    from .progress import as_progress
-    from .section_run import check_section_case
+        beam = check_beam(case, progress=progress)
+        return CheckResult(case=case, result=beam.result, run=beam)
+    from fem.section.check import check_section_case
 
     prog = as_progress(progress)  # the section run calls a plain progress(message)
     prog.start(case.mesh.levels)
     try:
-        return check_section_case(case, progress=prog.step)
+        section = check_section_case(case, progress=prog.step)
     finally:
         prog.close()
+    return CheckResult(case=case, result=section.result, run=section)
 
 
 def write_outputs(res: CheckResult, out: str | Path, report: bool = True) -> list[Path]:
     """Write the output folder atomically; return the files written.
 
     With `report` (the default): the PNG figures, fields.vtu and profiles.csv
-    (`fem.fields`), report.html and report.pdf (`fem.report`) and results.json; without
-    it results.json only.
+    (`fem.report.fields`), report.html and report.pdf (`fem.report.note`) and results.json;
+    without it results.json only.
     """
     out = Path(out)
     names: list[str] = []
     figures: list[str] = []
     with staged_output(out) as stage:
         if report:
-            from .fields import write_fields
-            from .figures import write_figures
-            from .report import write_report
+            from fem.report.fields import write_fields
+            from fem.report.figures import write_figures
+            from fem.report.note import write_report
 
             figs = write_figures(res, stage)
             figures = [p.name for p in figs]
@@ -138,3 +149,28 @@ def write_outputs(res: CheckResult, out: str | Path, report: bool = True) -> lis
     if report:
         res.figures = [out / n for n in figures]
     return [out / n for n in names]
+
+
+def hand_check(case: Case, out: Path) -> str:
+    """Write results.json (FE figures null) into `out`; return the calculation text."""
+    if case.kind == "beam":
+        from fem.member.hand_only import beam_hand_result
+
+        res, lines = beam_hand_result(case)
+    else:
+        from fem.section.hand_only import section_hand_result
+
+        res, lines = section_hand_result(case)
+    d = res.to_dict()
+    d["mesh"] = {"nodes": None, "elements": None, "dofs": None, "size": None, "order": None}
+    d["convergence"] = {"sizes": [], "tau_max": [], "observed_order": None,
+                        "extrapolated": None, "gci": None, "singular": False}
+    d["verdict"] = "inconclusive"
+    d["note"] = "hand side only: no FE was run, so no verdict on the hand method is possible"
+    if case.kind == "beam":
+        d["peak"] = {k: None for k in ("tau_max", "tau_at", "von_mises_max", "von_mises_at",
+                                       "principal_max", "principal_at")}
+        d["equilibrium"] = {"applied": None, "reactions": None, "relative_error": None}
+    with staged_output(Path(out)) as stage:
+        write_json(d, stage / "results.json")
+    return "\n".join(lines)

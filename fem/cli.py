@@ -13,7 +13,7 @@ import traceback
 from importlib import resources
 from pathlib import Path
 
-from .errors import CaseError, SolveError
+from fem.errors import CaseError, SolveError
 
 __all__ = ["main", "DEMO_CASE"]
 
@@ -67,13 +67,13 @@ def _suite_parsers(sub) -> None:
 
 def _progress(quiet: bool):
     """A progress bar on stderr (tqdm), or None with --quiet or when stderr is no terminal."""
-    from .progress import console_progress
+    from fem.progress import console_progress
 
     return console_progress(quiet)
 
 
 def _run(case_path: Path, out: Path | None, report: bool, quiet: bool) -> int:
-    from .api import check, write_outputs
+    from fem.api import check, write_outputs
 
     case, out = _load(case_path, out)
     try:
@@ -91,7 +91,7 @@ def _run(case_path: Path, out: Path | None, report: bool, quiet: bool) -> int:
 
 
 def _hand(case_path: Path, out: Path | None, quiet: bool) -> int:
-    from .hand_only import hand_check
+    from fem.api import hand_check
 
     case, out = _load(case_path, out)
     text = hand_check(case, out)
@@ -102,7 +102,7 @@ def _hand(case_path: Path, out: Path | None, quiet: bool) -> int:
 
 
 def _regress(args: argparse.Namespace) -> int:
-    from .regress import format_table, run_suite
+    from fem.study.regress import format_table, run_suite
 
     for n in (args.levels, args.workers):
         if n is not None and n < 1:
@@ -120,8 +120,8 @@ def _regress(args: argparse.Namespace) -> int:
 
 
 def _sweep(args: argparse.Namespace) -> int:
-    from .case import load_case
-    from .sweep import parse_vary, run_sweep
+    from fem.case.parse import load_case
+    from fem.study.sweep import parse_vary, run_sweep
 
     varies = [parse_vary(v) for v in args.vary]
     out = args.out if args.out is not None else Path("out") / f"sweep-{load_case(args.case).name}"
@@ -154,7 +154,7 @@ def _sweep(args: argparse.Namespace) -> int:
 
 def _load(case_path: Path, out: Path | None):
     """The case and its output folder (default out/<name>: the name cannot hold a path)."""
-    from .case import load_case
+    from fem.case.parse import load_case
 
     try:
         case = load_case(case_path)

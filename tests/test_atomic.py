@@ -124,7 +124,7 @@ def test_next_run_replaces_with_a_complete_result_and_sweeps_stale_staging(tmp_p
 
 def test_figure_failure_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
     """A failure after some outputs are staged: nothing moves, the stage is removed."""
-    import fem.figures
+    import fem.report.figures
 
     out = tmp_path / "out"
     old = _earlier(out)
@@ -136,7 +136,7 @@ def test_figure_failure_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
         (Path(stage) / "shear-contour.png").write_bytes(b"partial")
         raise RuntimeError("the plotting failed")
 
-    monkeypatch.setattr(fem.figures, "write_figures", half_then_fail)
+    monkeypatch.setattr(fem.report.figures, "write_figures", half_then_fail)
     with pytest.raises(RuntimeError, match="plotting failed"):
         write_outputs(res, out, report=True)
     assert (out / "results.json").read_bytes() == old
@@ -146,7 +146,7 @@ def test_figure_failure_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
 def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
     """results.json is moved last: a crash while moving the other files leaves the old one
     (and the stage is cleaned up)."""
-    import fem.outputs
+    import fem.output_folder
     from fem.results import write_json
 
     out = tmp_path / "out"
@@ -163,9 +163,9 @@ def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypat
             moved.append(Path(dst).name)
         real_replace(src, dst)
 
-    monkeypatch.setattr(fem.outputs.os, "replace", replace)
+    monkeypatch.setattr(fem.output_folder.os, "replace", replace)
     with pytest.raises(OSError, match="disk full"):
-        with fem.outputs.staged_output(out) as stage:
+        with fem.output_folder.staged_output(out) as stage:
             write_json(res.result, stage / "results.json")
             for name in ("z-figure.png", "a-figure.png", "report.html"):
                 (stage / name).write_bytes(b"new")

@@ -122,11 +122,11 @@ def test_deep_beam_with_the_exact_end_tractions():
     import scipy.sparse.linalg as spla
     from skfem import FacetBasis, LinearForm, asm
 
-    from fem.cuts import sample_cut
-    from fem.mesh import mesh_member
-    from fem.plane import cut_strips
-    from fem.recovery import PointLocator, recover
-    from fem.solve import solve_member
+    from fem.case.outline import cut_strips
+    from fem.member.cuts import sample_cut
+    from fem.member.mesh import mesh_member
+    from fem.member.recovery import PointLocator, recover
+    from fem.member.solve import solve_member
 
     case = parse_case(UNIFORM, "deep.toml")
     mm = mesh_member(case)

@@ -25,7 +25,7 @@ from hypothesis import strategies as st
 
 from fem.case import Case, parse_case
 from fem.errors import CaseError, SolveError
-from fem.sweep import dumps_toml as to_toml  # the project's own TOML writer
+from fem.study.sweep import dumps_toml as to_toml  # the project's own TOML writer
 
 RUN_DOFS = 30_000  # dof limit of the coarse runs (the size guard refuses anything larger)
 # numpy warnings (division by zero, overflow) flagged real bugs: here they are failures

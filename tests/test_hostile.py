@@ -167,7 +167,8 @@ def test_refused_levels_name_the_finest_mesh():
 ])
 def test_dof_estimate_is_within_a_factor_of_the_real_count(extra, support, size, order):
     """Estimate against the dofs of the real mesh: within a factor 1.5 (measured 0.9-1.2)."""
-    from fem.mesh import estimate_dofs, mesh_member
+    from fem.case.sizing import estimate_dofs
+    from fem.member.mesh import mesh_member
 
     text = good(extra=extra, size=size, support=support).replace(
         "levels = 1", f"levels = 1\norder = {order}")
@@ -204,8 +205,8 @@ size = {size}
      'web_thickness = 3.0\nroot_radius = 2.0', 1.0),
 ])
 def test_section_dof_estimate_is_within_a_factor_of_the_real_count(geo, size):
-    from fem.section_mesh import mesh_section, section_shape
-    from fem.sizing import estimate_dofs
+    from fem.case.sizing import estimate_dofs
+    from fem.section.mesh import mesh_section, section_shape
 
     case = parse_case(SECTION.format(geo=geo, size=size), "sec.toml")
     g = case.geometry
@@ -228,7 +229,7 @@ def test_section_dof_estimate_is_within_a_factor_of_the_real_count(geo, size):
 def test_mechanism_check_tells_stable_from_free(support, free):
     """Restraints along x act on horizontal lines, along y on vertical ones: the member can
     turn only if every line meets in one point; it slides if a direction has none."""
-    from fem.plane import check_mechanism, patches
+    from fem.case.outline import check_mechanism, patches
 
     case = parse_case(good(support=support), "m.toml")
     sup, _ = patches(case)
@@ -242,29 +243,29 @@ def test_mechanism_check_tells_stable_from_free(support, free):
 def test_singular_solve_is_caught(monkeypatch):
     """With the mechanism check bypassed, a free member gives a solve that does not satisfy
     K u = f (SuperLU does not always see the singularity): the residual check explains it."""
-    import fem.mesh
-    import fem.solve
+    import fem.member.mesh
+    import fem.member.solve
 
-    monkeypatch.setattr(fem.mesh, "check_mechanism", lambda *a: None)
-    monkeypatch.setattr(fem.solve, "check_mechanism", lambda *a: None)
+    monkeypatch.setattr(fem.member.mesh, "check_mechanism", lambda *a: None)
+    monkeypatch.setattr(fem.member.solve, "check_mechanism", lambda *a: None)
     case = parse_case(good(support='at = [0.0, 50.0]\nfix = "xy"'), "s.toml")
     with pytest.raises(SolveError, match="singular"):
-        fem.solve.solve_member(case, fem.mesh.mesh_member(case))
+        fem.member.solve.solve_member(case, fem.member.mesh.mesh_member(case))
 
 
 def test_non_finite_solve_is_caught(monkeypatch):
     import numpy as np
 
-    import fem.mesh
-    import fem.solve
+    import fem.member.mesh
+    import fem.member.solve
 
     def nan_solver(A, b, method="direct", modes=None):
         return np.full_like(b, np.nan), 0
 
-    monkeypatch.setattr(fem.solve, "solve_linear", nan_solver)
+    monkeypatch.setattr(fem.member.solve, "solve_linear", nan_solver)
     case = parse_case(good(), "n.toml")
     with pytest.raises(SolveError, match="non-finite"):
-        fem.solve.solve_member(case, fem.mesh.mesh_member(case))
+        fem.member.solve.solve_member(case, fem.member.mesh.mesh_member(case))
 
 
 # --- gmsh failures ----------------------------------------------------------------------------
@@ -272,7 +273,7 @@ def test_non_finite_solve_is_caught(monkeypatch):
 def test_gmsh_failure_is_explained_and_other_errors_are_not_hidden(monkeypatch):
     import gmsh
 
-    from fem.mesh import mesh_member
+    from fem.member.mesh import mesh_member
 
     case = parse_case(good(), "g.toml")
 
@@ -297,7 +298,7 @@ def test_folded_curved_elements_are_unfolded_or_explained(monkeypatch):
     through gmsh's high-order optimisation; if it stays folded the run stops in words."""
     import gmsh
 
-    import fem.mesh
+    import fem.member.mesh
 
     case = parse_case(good(extra="[[geometry.holes]]\ncenter = [150.0, 50.0]\nradius = 5.0"),
                       "fold.toml")
@@ -306,11 +307,11 @@ def test_folded_curved_elements_are_unfolded_or_explained(monkeypatch):
     monkeypatch.setattr(gmsh.model.mesh, "optimize",
                         lambda how: calls.append(how) or optimize(how))
     seq = iter([-0.5, 0.2])
-    monkeypatch.setattr(fem.mesh, "_min_jacobian", lambda: next(seq))
-    assert fem.mesh.mesh_member(case).curved and calls == ["HighOrder"]
+    monkeypatch.setattr(fem.member.mesh, "_min_jacobian", lambda: next(seq))
+    assert fem.member.mesh.mesh_member(case).curved and calls == ["HighOrder"]
     seq = iter([-0.5, -0.1])
     with pytest.raises(SolveError, match="folded elements"):
-        fem.mesh.mesh_member(case)
+        fem.member.mesh.mesh_member(case)
 
 
 # --- exit codes, logs, output folder ----------------------------------------------------------
@@ -339,13 +340,13 @@ def test_internal_error_exits_1_with_a_log_and_keeps_results(tmp_path: Path, mon
 
 
 def test_internal_error_while_reading_is_logged_too(tmp_path: Path, monkeypatch, capsys):
-    import fem.case
+    import fem.case.parse
     from fem.cli import main
 
     def boom(path):
         raise RuntimeError("reader broke")
 
-    monkeypatch.setattr(fem.case, "load_case", boom)
+    monkeypatch.setattr(fem.case.parse, "load_case", boom)
     assert main(["run", str(tmp_path / "any.toml"), "--out", str(tmp_path / "o")]) == 1
     assert "reader broke" in (tmp_path / "o" / "shearcheck-error.log").read_text()
     assert len(capsys.readouterr().err.strip().splitlines()) == 1
@@ -403,7 +404,7 @@ def test_messages_point_at_the_line():
 
 
 def test_key_lines_follow_tables_arrays_and_multiline_values():
-    from fem.reader import key_lines
+    from fem.case.reader import key_lines
 
     text = ('a = 1\npoints = [\n  [0.0, 1.0],\n  [2.0, 3.0]\n]\n[geometry]\nb = "x = ["\n'
             '[[geometry.holes]]\nc = 1\n[[geometry.holes]]\nc = 2\n[mesh]\nsize = 1\n')

@@ -9,9 +9,10 @@ import sys
 import pytest
 from conftest import CANTILEVER, ROOT
 
-import fem.run
+import fem.member.check
 from fem.case import parse_case
-from fem.mesh import estimate_dofs, level_size
+from fem.case.sizing import estimate_dofs, level_size
+from fem.member.check import check_beam
 from fem.progress import (
     BarProgress,
     CallbackProgress,
@@ -20,7 +21,6 @@ from fem.progress import (
     as_progress,
     console_progress,
 )
-from fem.run import check_beam
 
 
 class _Tty(io.StringIO):
@@ -110,7 +110,7 @@ def test_check_beam_reports_each_level_weighted_by_its_size():
 
 def test_progress_is_closed_when_a_level_fails(monkeypatch):
     calls = {"n": 0}
-    real = fem.run.run_level
+    real = fem.member.check.run_level
 
     def failing(*args, **kwargs):
         calls["n"] += 1
@@ -118,7 +118,7 @@ def test_progress_is_closed_when_a_level_fails(monkeypatch):
             raise RuntimeError("mesh failed")
         return real(*args, **kwargs)
 
-    monkeypatch.setattr(fem.run, "run_level", failing)
+    monkeypatch.setattr(fem.member.check, "run_level", failing)
     rec = _Recorder()
     with pytest.raises(RuntimeError, match="mesh failed"):
         check_beam(_case(2), progress=rec)

@@ -20,7 +20,7 @@ from classical.sections import (
     tee_properties,
     tube_properties,
 )
-from fem.section_mesh import mesh_section, section_shape
+from fem.section.mesh import mesh_section, section_shape
 
 
 def _moments(sm) -> tuple[float, float, float, float, float, float]:

@@ -7,8 +7,8 @@ import math
 import numpy as np
 import pytest
 
-from fem.section_mesh import mesh_section, section_shape
-from fem.section_solve import solve_section
+from fem.section.mesh import mesh_section, section_shape
+from fem.section.solve import solve_section
 
 
 def _solve(shape: str, size: float, nu: float, order: int = 2, **params):

@@ -1,6 +1,7 @@
 """Trustworthy peaks: smooth stresses converge at order 2, sharp corners grow at Williams'
 rate and are flagged, idealised supports are excluded, and a singular corner decides the
-verdict only where it governs (`fem.run`, `fem.concentration`, `fem.convergence`)."""
+verdict only where it governs (`fem.member.check`, `fem.member.concentration`,
+`fem.convergence`)."""
 
 from __future__ import annotations
 
@@ -9,9 +10,9 @@ import pytest
 from conftest import CANTILEVER
 
 from fem.case import parse_case
-from fem.concentration import Concentration
 from fem.convergence import GCI_LIMIT, growth_exponent, log_log_slope, williams_lambda
-from fem.run import BeamRun, check_beam
+from fem.member.check import BeamRun, check_beam
+from fem.member.concentration import Concentration
 
 # An L-shaped plate, 100 x 100 mm less the top-right quarter: the re-entrant corner at
 # (50, 50) has a 270 degree material wedge. Each arm is pulled away from the corner by a
@@ -78,7 +79,7 @@ def test_sharp_corner_grows_at_the_williams_rate(sharp):
     the stress there grows like h^(lambda - 1) = h^-0.456.
 
     Measured: the von Mises stress h/3 from the corner on the bisector (two corner elements
-    out, see fem.concentration), sizes 10, 5, 2.5 mm: slope -0.434. That sample, not the
+    out, see fem.member.concentration), sizes 10, 5, 2.5 mm: slope -0.434. That sample, not the
     nodal value at the vertex, because the vertex value depends on the few elements that
     meet there (pairwise slopes -0.62, -0.37, -0.56 here). Held to +-0.1."""
     (c,) = _kind(sharp, "corner")

@@ -1,4 +1,4 @@
-"""The fast stiffness assembly and the solver choice of `fem.solve` (correctness, not speed).
+"""The fast stiffness assembly and the solver choice of `fem.member.solve` (correctness, not speed).
 
 The element kernel must reproduce scikit-fem's generic assembly of the same weak form
 int t (2 mu eps(u) : eps(v) + lam div u div v) (plane elasticity, common practice), on
@@ -22,9 +22,9 @@ from skfem import (
 )
 from skfem.helpers import ddot, sym_grad, trace
 
-import fem.solve as fs
+import fem.member.solve as fs
 from fem.case import parse_case
-from fem.mesh import mesh_member
+from fem.member.mesh import mesh_member
 
 
 @BilinearForm

@@ -1,0 +1,171 @@
+"""What a case file describes: frozen dataclasses (the contract in CASE-FORMAT.md).
+
+Nothing here reads files or validates: `fem.case.parse` builds these from TOML and checks
+every key; `fem.case.outline` and `fem.case.section_rules` check the geometry.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from typing import Any
+
+from classical.units import stress_unit
+
+__all__ = [
+    "Case", "Units", "Material", "Hole", "Cutout", "Zone", "Placement", "Support", "Load",
+    "Refine", "MeshSpec", "Check", "BeamGeometry", "SectionGeometry", "SCHEMA", "EDGES",
+    "METHODS", "SECTION_SHAPES", "FIXES", "DISTRIBUTIONS", "MAX_NAME", "MAX_NU_STRAIN",
+]
+
+SCHEMA = 1
+MAX_NAME = 64  # characters in a case name (it becomes a folder name)
+MAX_NU_STRAIN = 0.499  # plane strain above this: volumetric locking, ill-conditioned stiffness
+EDGES = ("left", "right", "top", "bottom")
+METHODS = ("shear-formula", "average", "single-shear", "double-shear")
+FIXES = ("xy", "x", "y")
+DISTRIBUTIONS = ("uniform", "parabolic", "cosine")
+SECTION_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
+    # shape: (required parameters, optional parameters)
+    "rectangle": (("width", "depth"), ()),
+    "circle": (("diameter",), ()),
+    "tube": (("diameter", "wall"), ()),
+    "box": (("width", "depth", "wall"), ()),
+    "i": (("depth", "flange_width", "flange_thickness", "web_thickness"), ("root_radius",)),
+    "channel": (("depth", "flange_width", "flange_thickness", "web_thickness"),
+                ("root_radius",)),
+    "tee": (("depth", "flange_width", "flange_thickness", "web_thickness"), ("root_radius",)),
+    "angle": (("leg_x", "leg_y", "thickness"), ()),
+    "polygon": (("points",), ("holes",)),
+}
+
+
+@dataclass(frozen=True)
+class Units:
+    length: str = "mm"
+    force: str = "N"
+
+    @property
+    def stress(self) -> str:
+        return stress_unit(self.length, self.force)
+
+
+@dataclass(frozen=True)
+class Material:
+    E: float
+    nu: float
+    thickness: float = 1.0
+    model: str = "plane-stress"
+    yield_stress: float | None = None
+
+
+@dataclass(frozen=True)
+class Hole:
+    center: tuple[float, float]
+    radius: float
+
+
+@dataclass(frozen=True)
+class Cutout:
+    corner: tuple[float, float]
+    size: tuple[float, float]
+    fillet: float = 0.0
+
+
+@dataclass(frozen=True)
+class Zone:
+    corner: tuple[float, float]
+    size: tuple[float, float]
+    thickness: float
+
+
+@dataclass(frozen=True)
+class Placement:
+    """Where a support or load acts: exactly one of edge, start/end, at(+width), hole."""
+
+    edge: str | None = None
+    start: tuple[float, float] | None = None
+    end: tuple[float, float] | None = None
+    at: tuple[float, float] | None = None
+    width: float = 0.0
+    hole: int | None = None
+
+    @property
+    def is_point(self) -> bool:
+        return self.at is not None and self.width == 0.0
+
+
+@dataclass(frozen=True)
+class Support:
+    where: Placement
+    fix: str
+    key: str = ""
+
+
+@dataclass(frozen=True)
+class Load:
+    where: Placement
+    force: tuple[float, float]
+    distribution: str = "uniform"
+    key: str = ""
+
+
+@dataclass(frozen=True)
+class Refine:
+    at: tuple[float, float]
+    radius: float
+    size: float
+
+
+@dataclass(frozen=True)
+class MeshSpec:
+    size: float
+    order: int = 2
+    levels: int = 1
+    max_dofs: int = 2_000_000
+    refine: tuple[Refine, ...] = ()
+    adaptive: bool = False   # levels after the first refined by the error estimate (beams)
+
+
+@dataclass(frozen=True)
+class Check:
+    method: str = "shear-formula"
+    cuts: tuple[float, ...] | None = None
+    tolerance: float = 0.05
+    hand_value: float | None = None
+
+
+@dataclass(frozen=True)
+class BeamGeometry:
+    shape: str
+    length: float = 0.0
+    depth: float = 0.0
+    points: tuple[tuple[float, float], ...] = ()
+    holes: tuple[Hole, ...] = ()
+    cutouts: tuple[Cutout, ...] = ()
+    zones: tuple[Zone, ...] = ()
+
+
+@dataclass(frozen=True)
+class SectionGeometry:
+    shape: str
+    params: dict[str, Any] = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Case:
+    name: str
+    title: str
+    kind: str
+    units: Units
+    material: Material
+    geometry: BeamGeometry | SectionGeometry
+    mesh: MeshSpec
+    check: Check
+    supports: tuple[Support, ...] = ()
+    loads: tuple[Load, ...] = ()
+    shear: tuple[float, float] = (0.0, 0.0)
+    file: str = "<case>"
+    schema: int = SCHEMA
+
+    def with_mesh(self, **changes: Any) -> Case:
+        return replace(self, mesh=replace(self.mesh, **changes))

@@ -1,0 +1,320 @@
+"""Case files: TOML in, frozen dataclasses out (the contract in CASE-FORMAT.md).
+
+`load_case(path)` reads and validates every key before anything is meshed; geometric
+checks that need the outline (holes inside, patches on the boundary) live in `fem.case.outline`
+and run from `validate_geometry`, called here too.
+"""
+
+from __future__ import annotations
+
+import re
+import tomllib
+from pathlib import Path
+from typing import Any
+
+from classical.units import FORCE_UNITS, LENGTH_UNITS
+from fem.case.model import (
+    DISTRIBUTIONS,
+    EDGES,
+    FIXES,
+    MAX_NAME,
+    MAX_NU_STRAIN,
+    METHODS,
+    SCHEMA,
+    SECTION_SHAPES,
+    BeamGeometry,
+    Case,
+    Check,
+    Cutout,
+    Hole,
+    Load,
+    Material,
+    MeshSpec,
+    Placement,
+    Refine,
+    SectionGeometry,
+    Support,
+    Units,
+    Zone,
+)
+from fem.case.outline import validate_geometry
+from fem.case.reader import Table, as_point, line_of
+from fem.case.section_rules import validate_section
+from fem.case.sizing import check_size
+from fem.errors import CaseError
+
+__all__ = ["load_case", "parse_case"]
+
+def load_case(path: str | Path) -> Case:
+    """Read and validate a case file; raise `CaseError` on anything wrong."""
+    path = Path(path)
+    name = str(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise CaseError(name, "", "file not found") from None
+    except UnicodeDecodeError:
+        raise CaseError(name, "", "cannot read the file: it is not UTF-8 text") from None
+    except OSError as exc:
+        raise CaseError(name, "", f"cannot read the file ({exc.__class__.__name__})") from None
+    return parse_case(text, name)
+
+
+def parse_case(text: str, file: str = "<case>") -> Case:
+    """Parse TOML text into a validated `Case`; a `CaseError` names the line where it can."""
+    try:
+        return _parse(text, file)
+    except CaseError as exc:
+        if exc.line is not None or not exc.key:
+            raise
+        line = line_of(text, exc.key)
+        if line is None:
+            raise
+        raise CaseError(exc.file, exc.key, exc.message, line) from None
+
+
+def _parse(text: str, file: str) -> Case:
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        m = re.search(r"line (\d+)", str(exc))
+        raise CaseError(file, "", f"not valid TOML: {exc}",
+                        line=int(m.group(1)) if m else None) from None
+    top = Table(data, file)
+    schema = top.number("schema", SCHEMA, integer=True)
+    if schema != SCHEMA:
+        raise top.error("schema", f"version {schema} is not known; this release reads "
+                                  f"schema = {SCHEMA}")
+    case_name = top.text("name", pattern=lambda s: re.fullmatch(r"[a-z0-9-]+", s) is not None,
+                         describe="use lower-case letters, digits and '-' only")
+    if len(case_name) > MAX_NAME:
+        raise top.error("name", f"is {len(case_name)} characters long; at most {MAX_NAME} "
+                                "(it names the output folder)")
+    title = top.text("title", case_name)
+    kind = top.text("kind", allowed=("beam", "section"))
+    units = _units(top.table("units", None), top)
+    material = _material(top.table("material"), kind)
+    mesh = _mesh(top.table("mesh"))
+    if mesh.adaptive and kind != "beam":
+        raise CaseError(file, "mesh.adaptive", "adaptive refinement is for beam cases; "
+                                               "sections refine uniformly")
+    check = _check(top.table("check", None), kind)
+    if kind == "beam":
+        geometry = _beam_geometry(top.table("geometry"))
+        supports = tuple(_support(t) for t in top.tables("supports"))
+        loads = tuple(_load(t) for t in top.tables("loads"))
+        if not supports:
+            raise top.error("supports", "at least one [[supports]] entry is required")
+        if not loads:
+            raise top.error("loads", "at least one [[loads]] entry is required")
+        if all(ld.force == (0.0, 0.0) for ld in loads):
+            raise top.error("loads", "every load is zero; give at least one non-zero force")
+        shear = (0.0, 0.0)
+    else:
+        geometry = _section_geometry(top.table("geometry"))
+        lt = top.table("loads")
+        shear = _force(lt, "shear")
+        lt.close()
+        if shear == (0.0, 0.0):
+            raise lt.error("shear", "is zero; give a non-zero [Vx, Vy]")
+        supports, loads = (), ()
+    top.close()
+    case = Case(name=case_name, title=title, kind=kind, units=units, material=material,
+                geometry=geometry, mesh=mesh, check=check, supports=supports, loads=loads,
+                shear=shear, file=file, schema=schema)
+    if kind == "beam":
+        validate_geometry(case)
+    else:
+        validate_section(case)
+    check_size(case)
+    return case
+
+
+def _units(t: Table | None, top: Table) -> Units:
+    if t is None:
+        return Units()
+    u = Units(length=t.text("length", "mm", allowed=tuple(LENGTH_UNITS)),
+              force=t.text("force", "N", allowed=tuple(FORCE_UNITS)))
+    t.close()
+    return u
+
+
+def _material(t: Table, kind: str) -> Material:
+    E = t.number("E", low=0.0, low_open=True)
+    nu = t.number("nu", low=-1.0, high=0.5, low_open=True, high_open=True)
+    if kind == "beam":
+        thickness = t.number("thickness", low=0.0, low_open=True)
+        model = t.text("model", "plane-stress", allowed=("plane-stress", "plane-strain"))
+        if model == "plane-strain" and nu > MAX_NU_STRAIN:
+            raise t.error("nu", f"{nu:g} is nearly incompressible in plane strain: the "
+                                "displacement elements lock and the stiffness is ill-"
+                                f"conditioned; use nu <= {MAX_NU_STRAIN:g}")
+    else:
+        thickness = t.number("thickness", 1.0, low=0.0, low_open=True)
+        model = "section"
+    ys = t.number("yield", None, low=0.0, low_open=True)
+    t.close()
+    return Material(E=E, nu=nu, thickness=thickness, model=model, yield_stress=ys)
+
+
+def _mesh(t: Table) -> MeshSpec:
+    size = t.number("size", low=0.0, low_open=True)
+    order = t.number("order", 2, integer=True)
+    if order not in (1, 2):
+        raise t.error("order", f"must be 1 or 2, got {order}")
+    levels = t.number("levels", 1, integer=True, low=1, high=8)
+    max_dofs = t.number("max_dofs", 2_000_000, integer=True, low=1)
+    adaptive = t.flag("adaptive", False)
+    refine = []
+    for r in t.tables("refine"):
+        refine.append(Refine(at=r.point("at"), radius=r.number("radius", low=0.0, low_open=True),
+                             size=r.number("size", low=0.0, low_open=True)))
+        r.close()
+    t.close()
+    return MeshSpec(size=size, order=order, levels=levels, max_dofs=max_dofs,
+                    refine=tuple(refine), adaptive=adaptive)
+
+
+def _check(t: Table | None, kind: str) -> Check:
+    if t is None:
+        return Check()
+    method = t.text("method", "shear-formula", allowed=METHODS)
+    cuts = t.numbers("cuts", None) if kind == "beam" else None
+    if cuts is not None and not cuts:
+        raise t.error("cuts", "is empty; leave it out for the automatic set")
+    tol = t.number("tolerance", 0.05, low=0.0, high=1.0)
+    hv = t.number("hand_value", None, low=0.0, low_open=True)
+    t.close()
+    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv)
+
+
+def _beam_geometry(t: Table) -> BeamGeometry:
+    shape = t.text("shape", allowed=("rectangle", "polygon"))
+    length = depth = 0.0
+    points: tuple[tuple[float, float], ...] = ()
+    if shape == "rectangle":
+        length = t.number("length", low=0.0, low_open=True)
+        depth = t.number("depth", low=0.0, low_open=True)
+    else:
+        raw = t.raw("points")
+        if not isinstance(raw, list) or len(raw) < 3:
+            raise t.error("points", "must be a list of at least three [x, y] points")
+        points = tuple(as_point(p, t.file, f"{t.key('points')}.{i}") for i, p in enumerate(raw))
+        for i in range(1, len(points)):
+            if points[i] == points[i - 1]:
+                raise t.error(f"points.{i}", f"{list(points[i])} repeats the point before it; "
+                                             "give each corner once")
+    holes = []
+    for h in t.tables("holes"):
+        holes.append(Hole(center=h.point("center"),
+                          radius=h.number("radius", low=0.0, low_open=True)))
+        h.close()
+    cutouts = []
+    for c in t.tables("cutouts"):
+        size = c.point("size")
+        if min(size) <= 0:
+            raise c.error("size", f"width and height must be > 0, got {list(size)}")
+        fillet = c.number("fillet", 0.0, low=0.0)
+        if fillet > 0 and fillet >= 0.5 * min(size):
+            raise c.error("fillet", f"{fillet:g} must be smaller than half the cut-out's "
+                                    f"smaller side ({0.5 * min(size):g})")
+        cutouts.append(Cutout(corner=c.point("corner"), size=size, fillet=fillet))
+        c.close()
+    zones = []
+    for z in t.tables("zones"):
+        size = z.point("size")
+        if min(size) <= 0:
+            raise z.error("size", f"width and height must be > 0, got {list(size)}")
+        zones.append(Zone(corner=z.point("corner"), size=size,
+                          thickness=z.number("thickness", low=0.0, low_open=True)))
+        z.close()
+    t.close()
+    return BeamGeometry(shape=shape, length=length, depth=depth, points=points,
+                        holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones))
+
+
+def _placement(t: Table, allow_hole: bool) -> Placement:
+    given = [k for k in ("edge", "from", "at", "hole") if t.has(k)]
+    if t.has("to") and not t.has("from"):
+        raise t.error("to", "needs a matching 'from'")
+    if len(given) != 1 or (given == ["hole"] and not allow_hole):
+        ways = "edge | from/to | at + width" + (" | hole" if allow_hole else "")
+        raise CaseError(t.file, t.path, f"give exactly one placement ({ways}); got "
+                                        f"{', '.join(given) or 'none'}")
+    how = given[0]
+    if how == "edge":
+        return Placement(edge=t.text("edge", allowed=EDGES))
+    if how == "from":
+        start, end = t.point("from"), t.point("to")
+        if start == end:
+            raise t.error("to", "equals 'from'; a stretch needs two different points")
+        return Placement(start=start, end=end)
+    if how == "at":
+        return Placement(at=t.point("at"), width=t.number("width", 0.0, low=0.0))
+    return Placement(hole=t.number("hole", integer=True, low=0))
+
+
+def _support(t: Table) -> Support:
+    s = Support(where=_placement(t, allow_hole=False), fix=t.text("fix", allowed=FIXES),
+                key=t.path)
+    t.close()
+    return s
+
+
+def _load(t: Table) -> Load:
+    where = _placement(t, allow_hole=True)
+    force = _force(t, "force")
+    dist = t.text("distribution", "cosine" if where.hole is not None else "uniform",
+                  allowed=DISTRIBUTIONS)
+    if where.hole is not None and dist != "cosine":
+        raise t.error("distribution", "a pin load on a hole uses 'cosine'")
+    if where.hole is None and dist == "cosine":
+        raise t.error("distribution", "'cosine' is for a pin load on a hole (hole = N)")
+    if where.is_point and dist == "parabolic":
+        raise t.error("distribution", "a point load (width 0) has no distribution; "
+                                      "give a width")
+    t.close()
+    return Load(where=where, force=force, distribution=dist, key=t.path)
+
+
+MIN_FORCE = 1e-30  # smaller non-zero force components are round-off, not loads
+
+
+def _force(t: Table, key: str) -> tuple[float, float]:
+    """A force pair [Fx, Fy]; components are 0 or at least MIN_FORCE in magnitude."""
+    f = t.point(key)
+    if any(0.0 < abs(v) < MIN_FORCE for v in f):
+        raise t.error(key, f"{list(f)}: a non-zero component must be at least {MIN_FORCE:g} "
+                           "in magnitude (smaller is round-off); use 0 for none")
+    return f
+
+
+def _section_geometry(t: Table) -> SectionGeometry:
+    shape = t.text("shape", allowed=tuple(SECTION_SHAPES))
+    required, optional = SECTION_SHAPES[shape]
+    params: dict[str, Any] = {}
+    for k in required + optional:
+        if k not in required and not t.has(k):
+            continue
+        if k in ("points", "holes"):
+            params[k] = _rings(t, k)
+        else:
+            params[k] = t.number(k, low=0.0, low_open=(k != "root_radius"))
+    t.close()
+    return SectionGeometry(shape=shape, params=params)
+
+
+def _rings(t: Table, k: str) -> Any:
+    raw = t.raw(k)
+    if k == "points":
+        if not isinstance(raw, list) or len(raw) < 3:
+            raise t.error(k, "must be a list of at least three [x, y] points")
+        return [as_point(p, t.file, f"{t.key(k)}.{i}") for i, p in enumerate(raw)]
+    if not isinstance(raw, list):
+        raise t.error(k, "must be a list of rings, each a list of [x, y] points")
+    rings = []
+    for j, ring in enumerate(raw):
+        if not isinstance(ring, list) or len(ring) < 3:
+            raise t.error(f"{k}.{j}", "must be a list of at least three [x, y] points")
+        rings.append([as_point(p, t.file, f"{t.key(k)}.{j}.{i}") for i, p in enumerate(ring)])
+    return rings

@@ -1,0 +1,149 @@
+"""The size guard: estimate the dofs of a mesh from area, element size and refinements.
+
+The estimate runs before gmsh does (from `fem.case.parse.parse_case`, for the finest level of
+the study, and again in `fem.member.mesh.mesh_member` for each size), so a model too large for
+`mesh.max_dofs` is refused in milliseconds with the estimate and the limit in the message.
+
+Triangles per unit area are `DENSITY / h^2` for element size h (gmsh's Frontal-Delaunay
+meshes measured here: 2.3 triangles per h^2, an equilateral triangle of side h has area
+0.433 h^2), plus `PERIMETER * DENSITY` per element length of boundary (the boundary row,
+which dominates thin walls meshed coarsely). The refinements of `fem.member.mesh._size_fields`
+(patch ends, re-entrant corners, holes, fillets, `mesh.refine`) grade h linearly from a
+fine size to the global size over a distance (at most `GRADING` per unit distance); their
+extra triangles are integrated in closed form and added. Overlapping refinements are
+counted twice, so the estimate errs on the large side there. Section meshes refine sharp
+re-entrant corners and root fillets their own way (`SECTION_CORNER`, `SECTION_GRADING`, as
+in `fem.section.mesh`). A P2 mesh has about 2 nodes per triangle (vertices + edge
+midpoints), a P1 mesh 1/2; a beam has 2 dofs per node, a section's warping problem 1.
+Measured against real meshes (tests/test_hostile.py): beams 0.90 to 1.08 of the real dof
+count, sections 0.66 (thin walls meshed coarser than their thickness) to 1.08.
+"""
+
+from __future__ import annotations
+
+import math
+
+from fem.case.model import BeamGeometry, Case, SectionGeometry
+from fem.errors import CaseError
+
+__all__ = ["estimate_dofs", "level_size", "check_size", "DENSITY", "PERIMETER", "GRADING"]
+
+DENSITY = 2.3    # triangles per (element size)^2 of area
+PERIMETER = 0.4  # extra triangles per element along the boundary (over DENSITY): thin walls
+GRADING = 0.5    # largest growth of element size per unit distance from a refinement (the
+                 # mesher's size fields use it too: fem.member.mesh imports it from here)
+
+
+def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
+    """Extra (1/h^2 - 1/H^2) integrated over a graded region, in size^-2 * area.
+
+    h = h0 within distance d0 of the feature, growing linearly to H at d1. A point feature
+    (r = 0) integrates over the disc of radius d1; a circle of radius r (material outside)
+    over the ring r .. r + d1.
+    """
+    if h0 >= H or d1 <= 0:
+        return 0.0
+    d1 = max(d1, d0 + (H - h0) / GRADING)  # as fem.member.mesh grades its size fields
+    inner = math.pi * ((r + d0) ** 2 - r**2) * (1 / h0**2 - 1 / H**2)
+    L = d1 - d0
+    if L <= 0:
+        return inner
+    b = (H - h0) / L
+    i1 = (math.log(H / h0) + h0 / H - 1.0) / b**2        # int_0^L s / h(s)^2 ds
+    i0 = (1.0 / h0 - 1.0 / H) / b                        # int_0^L 1 / h(s)^2 ds
+    ring = 2 * math.pi * (i1 + (r + d0) * i0)
+    ring -= math.pi * ((r + d1) ** 2 - (r + d0) ** 2) / H**2
+    return inner + ring
+
+
+def _beam_triangles(case: Case, size: float) -> float:
+    from shapely.geometry import Point
+
+    from fem.case.outline import domain_polygon, patches, reentrant_corners
+
+    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    dom = domain_polygon(g)
+    depth = dom.bounds[3] - dom.bounds[1]
+    scale = size / case.mesh.size
+    per_h2 = dom.area + PERIMETER * dom.length * size
+
+    def inside(p: tuple[float, float], radius: float) -> float:
+        disc = Point(p).buffer(radius, quad_segs=8)
+        return dom.intersection(disc).area / disc.area if disc.area > 0 else 0.0
+
+    sup, lds = patches(case, dom)
+    ends = {p for patch in sup + lds for p in patch.ends}
+    for p in ends:
+        per_h2 += inside(p, 0.25 * depth) * _graded(size / 4, size, 0.0, 0.25 * depth) * size**2
+    for c in reentrant_corners(dom):
+        per_h2 += (inside(c.at, 0.25 * depth) * _graded(size / 6, size, 0.0, 0.25 * depth)
+                   * size**2)
+    for h in g.holes:
+        fine = min(size / 2, 2 * math.pi * h.radius / 24 * scale)
+        per_h2 += _graded(fine, size, 0.0, 1.5 * h.radius, h.radius) * size**2
+    fillets = [c.fillet for c in g.cutouts if c.fillet > 0]
+    if fillets:
+        rmin = min(fillets)
+        fine = min(size / 2, 0.5 * math.pi * rmin / 6 * scale)
+        per_h2 += 4 * len(fillets) * 0.25 * _graded(fine, size, 0.0, 2 * rmin, rmin) * size**2
+    for r in case.mesh.refine:
+        per_h2 += (inside(r.at, 2 * r.radius) * _graded(r.size * scale, size, r.radius,
+                                                         2 * r.radius) * size**2)
+    return DENSITY * per_h2 / size**2
+
+
+SECTION_CORNER = 1 / 8   # fem.section.mesh: element size at sharp re-entrant corners / size
+SECTION_GRADING = 0.3    # fem.section.mesh: size growth per unit distance from a refinement
+
+
+def _section_triangles(case: Case, size: float) -> float:
+    from shapely.geometry import Point, Polygon
+
+    from classical.sections import section_outline
+    from fem.case.outline import reentrant_corners
+
+    g: SectionGeometry = case.geometry  # type: ignore[assignment]
+    o = section_outline(g.shape, **g.params)
+    poly = Polygon(o.outer, list(o.holes))
+    per_h2 = poly.area + PERIMETER * poly.length * size
+    # corners of the shape drawn without root fillets: sharp corners, or the fillets' sites
+    root = float(g.params.get("root_radius", 0.0))
+    sharp = section_outline(g.shape, **{**g.params, "root_radius": 0.0}) if root else o
+    for c in reentrant_corners(Polygon(sharp.outer, list(sharp.holes))):
+        fine = min(size, root / 3) if root else SECTION_CORNER * size
+        d1 = fine + (size - fine) / SECTION_GRADING
+        disc = Point(c.at).buffer(d1, quad_segs=8)
+        share = poly.intersection(disc).area / disc.area
+        per_h2 += share * _graded(fine, size, fine, d1) * size**2
+    for r in case.mesh.refine:
+        per_h2 += _graded(r.size * size / case.mesh.size, size, r.radius, 2 * r.radius) * size**2
+    return DENSITY * per_h2 / size**2
+
+
+def level_size(case: Case, level: int) -> float:
+    """Element size at convergence level `level` (0 = coarsest): halving each time."""
+    return case.mesh.size / 2.0 ** level
+
+
+def estimate_dofs(case: Case, size: float) -> int:
+    """Estimated dofs of the mesh of `case` at element size `size` (a validated case)."""
+    if case.kind == "beam":
+        tris, per_node = _beam_triangles(case, size), 2
+    else:
+        tris, per_node = _section_triangles(case, size), 1
+    nodes = tris * (2.0 if case.mesh.order == 2 else 0.5)
+    return int(min(per_node * nodes, 1e18))
+
+
+def check_size(case: Case) -> None:
+    """Refuse a study whose finest mesh would exceed `mesh.max_dofs` (before any meshing)."""
+    levels = case.mesh.levels
+    size = case.mesh.size / 2.0 ** (levels - 1)
+    estimate = estimate_dofs(case, size)
+    if estimate > case.mesh.max_dofs:
+        which = f"the finest mesh (level {levels}, size {size:g})" if levels > 1 else \
+            f"the mesh (size {size:g})"
+        raise CaseError(case.file, "mesh.max_dofs",
+                        f"{which} would have about {estimate:,} dofs, above the limit "
+                        f"{case.mesh.max_dofs:,}; raise mesh.size, lower mesh.levels or "
+                        "raise mesh.max_dofs")

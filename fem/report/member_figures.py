@@ -1,0 +1,288 @@
+"""Figures of a beam check (matplotlib, Agg): shear and von Mises contours, cut profiles.
+
+Colour: a diverging, perceptually uniform map centred on zero for signed shear
+('coolwarm' with a symmetric norm), a sequential one for magnitudes ('cividis');
+Gouraud shading, no contour bands. The colour scale ends at the largest value outside the
+excluded zones (boundary idealisations, drawn as dotted circles) and the sharp re-entrant
+corners (singular, marked x), so that a support corner does not wash out the rest of the
+member; the colour bar shows an arrow when values beyond it exist. Cut lines and profiles
+never bridge a hole. Every figure names its quantity and units.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import matplotlib
+
+matplotlib.use("Agg")
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+import shapely  # noqa: E402
+from matplotlib.colors import Normalize, TwoSlopeNorm  # noqa: E402
+from matplotlib.lines import Line2D  # noqa: E402
+from matplotlib.tri import Triangulation  # noqa: E402
+from shapely.geometry import LineString  # noqa: E402
+
+from fem.case.model import Case  # noqa: E402
+from fem.case.outline import cut_strips, domain_polygon, reentrant_corners  # noqa: E402
+from fem.member.level import Level, excluded_zones  # noqa: E402
+from fem.results import CutResult  # noqa: E402
+
+__all__ = ["contour_figure", "profile_figure", "write_beam_figures", "number", "DIVERGING",
+           "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
+
+DIVERGING = "coolwarm"
+SEQUENTIAL = "cividis"
+INK = "#222222"
+SUPPORT_COLOUR = "#1b7837"
+LOAD_COLOUR = "#762a83"
+FE_COLOUR = "#b2182b"
+HAND_COLOUR = "#2166ac"
+QUANTITIES = {"txy": "shear stress τxy", "von_mises": "von Mises stress"}
+
+
+def number(v: float, digits: int = 4) -> str:
+    """`v` to `digits` significant figures, without an exponent between 1e-3 and 1e7."""
+    if v is None or not math.isfinite(v):
+        return "–"
+    if v == 0:
+        return "0"
+    mag = math.floor(math.log10(abs(v)))
+    if -3 <= mag < 7:
+        return f"{v:.{max(0, digits - 1 - mag)}f}"
+    return f"{v:.{digits - 1}e}"
+
+
+def _outline(ax, dom) -> None:
+    for ring in [dom.exterior, *dom.interiors]:
+        x, y = ring.xy
+        ax.plot(x, y, color=INK, lw=0.8, zorder=4)
+
+
+def _arrows(case: Case, level: Level, span: float) -> list[tuple[tuple, tuple, np.ndarray]]:
+    """(head, tail, force) of each load's arrow: to the patch centre or the pin's hole."""
+    out = []
+    for p, ld in zip(level.mm.loads, case.loads, strict=True):
+        head = case.geometry.holes[p.hole].center if p.hole is not None else p.centroid
+        F = np.asarray(ld.force, float)
+        d = F / max(np.hypot(*F), 1e-300) * 0.12 * span
+        out.append((tuple(head), (head[0] - d[0], head[1] - d[1]), F))
+    return out
+
+
+def _patches(ax, case: Case, level: Level, span: float) -> None:
+    """Supports (green), loads (purple: the patch or the loaded half of a pin hole, and an
+    arrow with the resultant)."""
+    for p in level.mm.supports:
+        if p.point is not None:
+            ax.plot(*p.point, marker="^", color=SUPPORT_COLOUR, ms=9, zorder=6, clip_on=False)
+        for a, b in p.segments:
+            ax.plot([a[0], b[0]], [a[1], b[1]], color=SUPPORT_COLOUR, lw=5, alpha=0.85,
+                    solid_capstyle="butt", zorder=5, clip_on=False)
+    for p, (head, tail, F) in zip(level.mm.loads, _arrows(case, level, span), strict=True):
+        if p.hole is not None:  # the pin bears on the half of the hole facing the force
+            hole = case.geometry.holes[p.hole]
+            phi = math.atan2(F[1], F[0]) + np.linspace(-0.5 * math.pi, 0.5 * math.pi, 60)
+            ax.plot(hole.center[0] + hole.radius * np.cos(phi),
+                    hole.center[1] + hole.radius * np.sin(phi), color=LOAD_COLOUR, lw=4,
+                    alpha=0.85, solid_capstyle="butt", zorder=5)
+        for a, b in p.segments:
+            ax.plot([a[0], b[0]], [a[1], b[1]], color=LOAD_COLOUR, lw=5, alpha=0.85,
+                    solid_capstyle="butt", zorder=5, clip_on=False)
+        ax.annotate("", xy=head, xytext=tail, zorder=7, annotation_clip=False,
+                    arrowprops={"arrowstyle": "-|>", "color": LOAD_COLOUR, "lw": 2.0})
+        ax.text(tail[0], tail[1], f" {number(float(np.hypot(*F)))} {case.units.force}",
+                color=LOAD_COLOUR, fontsize=8, ha="left",
+                va="bottom" if head[1] <= tail[1] else "top", zorder=7)
+
+
+def _cut_lines(ax, dom, cuts: list[CutResult], colour: str) -> None:
+    """Each cut drawn over the material only, labelled below the member."""
+    x0, y0, x1, y1 = dom.bounds
+    for c in cuts:
+        line = LineString([(c.x, y0 - 1.0), (c.x, y1 + 1.0)])
+        for piece in shapely.get_parts(dom.intersection(line)):
+            if piece.geom_type == "LineString" and piece.length > 0:
+                ys = [q[1] for q in piece.coords]
+                ax.plot([c.x, c.x], [min(ys), max(ys)], color=colour, lw=0.9, ls=(0, (4, 3)),
+                        zorder=4)
+        ax.text(c.x, y0 - 0.015 * (y1 - y0), f"{c.x:g}", ha="center", va="top", fontsize=7,
+                color=INK)
+
+
+def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: str,
+                   path: Path) -> Path:
+    """Smooth contour of 'txy' (diverging) or 'von_mises' (sequential) with the model drawn."""
+    f = level.field
+    tri = Triangulation(f.p[0], f.p[1], f.t.T)
+    vals = f.nodal[quantity]
+    S, L = case.units.stress, case.units.length
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    x0, y0, x1, y1 = dom.bounds
+    w, h = x1 - x0, y1 - y0
+    zones = excluded_zones(case, level.mm.supports, level.mm.loads)
+    keep = np.ones(f.p.shape[1], bool)
+    for z in zones:
+        keep &= np.hypot(f.p[0] - z.at[0], f.p[1] - z.at[1]) > z.radius
+    # a sharp re-entrant corner is singular (Williams 1952): its value depends on the mesh
+    # only, so it sets neither the scale nor the peak shown (radius as in
+    # fem.member.check.check_beam)
+    corners = reentrant_corners(dom)
+    for c in corners:
+        keep &= np.hypot(f.p[0] - c.at[0], f.p[1] - c.at[1]) > 0.05 * h
+    mag = np.abs(vals)
+    ipk = int(np.argmax(np.where(keep, mag, -np.inf))) if keep.any() else int(np.argmax(mag))
+    lim = float(mag[ipk]) or float(mag.max()) or 1.0
+    clipped = bool(mag.max() > lim * (1 + 1e-9))
+    span = max(w, h)
+    ty = [t[1] for _, t, _ in _arrows(case, level, span)]
+    xlim = (x0 - 0.04 * span, x1 + 0.04 * span)
+    ylim = (min([y0 - 0.08 * h, *ty]) - 0.02 * span, max([y1 + 0.03 * h, *ty]) + 0.04 * span)
+    # height from the drawing's aspect: about 5.4 in of axes width, title and legend band
+    fig_h = float(np.clip(5.4 * (ylim[1] - ylim[0]) / (xlim[1] - xlim[0]) + 2.2, 3.8, 9.5))
+    fig, ax = plt.subplots(figsize=(8.0, fig_h))
+    label = f"{QUANTITIES[quantity]} [{S}]"
+    if quantity == "txy":
+        im = ax.tripcolor(tri, vals, shading="gouraud", cmap=DIVERGING,
+                          norm=TwoSlopeNorm(0.0, -lim, lim))
+        cut_colour = INK
+        extend = "both" if clipped else "neither"
+    else:
+        im = ax.tripcolor(tri, vals, shading="gouraud", cmap=SEQUENTIAL,
+                          norm=Normalize(0.0, lim))
+        cut_colour = "#f2f2f2"
+        extend = "max" if clipped else "neither"
+    _outline(ax, dom)
+    _cut_lines(ax, dom, cuts, cut_colour)
+    for z in zones:  # only the part of each zone inside the member
+        ring = shapely.Point(z.at).buffer(z.radius, quad_segs=32).exterior
+        for piece in shapely.get_parts(ring.intersection(dom)):
+            if piece.geom_type == "LineString":
+                ax.plot(*piece.xy, ls=":", lw=1.0, color=cut_colour, zorder=4)
+    for c in corners:
+        ax.plot(*c.at, marker="x", ms=8, mew=1.8, color=INK, zorder=8)
+    _patches(ax, case, level, span)
+    px, py = f.p[0, ipk], f.p[1, ipk]
+    ax.plot(px, py, marker="o", ms=7, mfc="none", mec=INK, mew=1.5, zorder=8)
+    peak_name = "max |τxy|" if quantity == "txy" else "max"
+    right = px > x0 + 0.6 * w  # keep the label inside the member's box
+    high = py > y0 + 0.8 * h
+    ax.annotate(f"{peak_name} {number(lim)} {S}", (px, py),
+                xytext=(-8 if right else 8, -8 if high else 8), textcoords="offset points",
+                ha="right" if right else "left", va="top" if high else "bottom", fontsize=8,
+                color=INK, zorder=8,
+                bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": "none", "alpha": 0.8})
+    ax.set_xlim(*xlim)
+    ax.set_ylim(*ylim)
+    ax.set_aspect("equal")
+    ax.set_xlabel(f"x [{L}]")
+    ax.set_ylabel(f"y [{L}]")
+    ax.set_title(f"{QUANTITIES[quantity][0].upper()}{QUANTITIES[quantity][1:]}, finest mesh "
+                 f"(element size {level.size:g} {L})", loc="left", fontsize=11,
+                 fontweight="bold")
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+    cb = fig.colorbar(im, ax=ax, shrink=0.85, pad=0.02, extend=extend)
+    cb.set_label(label)
+    handles = [Line2D([], [], color=SUPPORT_COLOUR, lw=5, label="support"),
+               Line2D([], [], color=LOAD_COLOUR, lw=5, label="load"),
+               Line2D([], [], color=INK, lw=0.9, ls=(0, (4, 3)), label=f"cut (x in {L})"),
+               Line2D([], [], marker="o", mfc="none", mec=INK, ls="none", label="peak")]
+    if zones:
+        handles.append(Line2D([], [], color=INK, ls=":", label="excluded zone"))
+    if corners:
+        handles.append(Line2D([], [], color=INK, marker="x", mew=1.8, ls="none",
+                              label="sharp corner (singular)"))
+    fig.legend(handles=handles, loc="lower center", bbox_to_anchor=(0.5, 0.2 / fig_h),
+               ncol=len(handles), frameon=False, fontsize=8)
+    note = "peak and colour scale: largest value outside the excluded zones"
+    note += " and sharp corners" if corners else ""
+    if clipped:
+        note += " (the arrow on the colour bar: larger values there)"
+    fig.text(0.5, 0.06 / fig_h, note, ha="center", va="bottom", fontsize=7, color="#555555")
+    fig.tight_layout(rect=(0, 0.55 / fig_h, 1, 1))
+    fig.savefig(path, dpi=150)
+    plt.close(fig)
+    return path
+
+
+def _per_strip(y: np.ndarray, values: list[float], strips) -> list[tuple[np.ndarray, ...]]:
+    """Split a profile at the gaps between material strips (a line never bridges a hole)."""
+    v = np.asarray(values, float)
+    out = []
+    edges = [(s.y0, s.y1) for s in strips] or [(y.min(), y.max())]
+    # merge strips that touch (a change of thickness is no gap)
+    merged: list[list[float]] = []
+    for a, b in edges:
+        if merged and a - merged[-1][1] <= 1e-9 * (1 + abs(a)):
+            merged[-1][1] = b
+        else:
+            merged.append([a, b])
+    for a, b in merged:
+        m = (y >= a - 1e-9 * (1 + abs(a))) & (y <= b + 1e-9 * (1 + abs(b)))
+        if m.any():
+            out.append((y[m], v[m]))
+    return out, merged
+
+
+def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
+    """tau(y) FE vs hand at one cut, and sigma_x beside it."""
+    S, L = case.units.stress, case.units.length
+    y = np.asarray(cut.profile.y)
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    strips = cut_strips(case.geometry, cut.x, case.material.thickness, dom)  # type: ignore
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(8.0, 4.4), sharey=True)
+    panels = ((a1, cut.profile.tau_fe, cut.profile.tau_hand, "VQ/(Ib)"),
+              (a2, cut.profile.sigma_x_fe, cut.profile.sigma_x_hand, "N/A + M(y − ȳ)/I"))
+    for ax, fe, hand, hand_label in panels:
+        pieces_fe, merged = _per_strip(y, fe, strips)
+        pieces_hd, _ = _per_strip(y, hand, strips)
+        for k, ((yy, vf), (_, vh)) in enumerate(zip(pieces_fe, pieces_hd, strict=True)):
+            ax.plot(vf, yy, color=FE_COLOUR, lw=1.8, label="FE" if k == 0 else None)
+            ax.plot(vh, yy, color=HAND_COLOUR, lw=1.4, ls="--",
+                    label=f"hand: {hand_label}" if k == 0 else None)
+        for (_, b), (a, _) in zip(merged[:-1], merged[1:], strict=True):
+            ax.axhspan(b, a, color="#e6e6e6", zorder=0)
+            ax.text(0.98, 0.5 * (a + b), "no material", transform=ax.get_yaxis_transform(),
+                    ha="right", va="center", fontsize=7, color="#666666",
+                    bbox={"boxstyle": "round,pad=0.2", "fc": "#e6e6e6", "ec": "none"})
+        ax.axvline(0.0, color="#bbbbbb", lw=0.6)
+        ax.grid(alpha=0.25)
+        for side in ("top", "right"):
+            ax.spines[side].set_visible(False)
+    tau_fe = np.asarray(cut.profile.tau_fe)
+    i = int(np.argmax(np.abs(tau_fe)))
+    a1.plot(tau_fe[i], y[i], "o", color=FE_COLOUR, ms=5, ls="none",
+            label=f"FE peak |τ| = {number(cut.tau_max_fe)} {S} at y = {number(y[i])} {L}")
+    sign = float(np.sign(tau_fe[i])) or 1.0
+    a1.axvline(sign * cut.tau_avg_hand, color="#4d4d4d", lw=1.0, ls=":",
+               label=f"hand: V/A = {number(cut.tau_avg_hand)} {S}")
+    if case.check.method not in ("shear-formula", "average"):
+        a1.axvline(sign * cut.tau_max_hand, color="#4d4d4d", lw=1.0, ls="-.",
+                   label=f"hand: {case.check.method} {number(cut.tau_max_hand)} {S}")
+    a1.set_xlabel(f"shear stress τxy [{S}]")
+    a1.set_ylabel(f"y [{L}]")
+    a2.set_xlabel(f"normal stress σx [{S}]")
+    ratio = ("no hand shear at this cut" if cut.ratio is None else
+             f"FE {number(cut.tau_max_fe)} vs hand {number(cut.tau_max_hand)} {S}, "
+             f"ratio {cut.ratio:.3f}")
+    fig.suptitle(f"Cut at x = {cut.x:g} {L}: {ratio}", x=0.01, ha="left", fontsize=11,
+                 fontweight="bold")
+    a1.legend(fontsize=7.5, frameon=False, loc="best")
+    a2.legend(fontsize=7.5, frameon=False, loc="best")
+    fig.tight_layout()
+    fig.savefig(path, dpi=150)
+    plt.close(fig)
+    return path
+
+
+def write_beam_figures(case: Case, level: Level, cuts: list[CutResult],
+                       folder: Path) -> list[Path]:
+    folder = Path(folder)
+    out = [contour_figure(case, level, cuts, "txy", folder / "shear-contour.png"),
+           contour_figure(case, level, cuts, "von_mises", folder / "von-mises-contour.png")]
+    for i, c in enumerate(cuts):
+        out.append(profile_figure(case, c, folder / f"profile-{i + 1:02d}.png"))
+    return out

@@ -1,0 +1,370 @@
+"""The design note of a check: one self-contained HTML file and a PDF, from the same content.
+
+`design_note(res, figures)` gathers what an engineer needs to follow and defend the check,
+in order: the verdict in plain words, the inputs, the hand calculation written out with
+the numbers substituted, the FE model and its equilibrium, FE against hand per cut, the
+convergence study, the figures, the assumptions and the caution. Every number comes from
+the result dataclasses (`fem.results`) or the hand side of the finest level
+(`fem.member.hand.CutHand`), so each can be traced by name. `fem.report.html` renders the note
+as one page with the figures as data URIs and the styles inline (no external file, link,
+script or font); `fem.report.pdf` draws the same text and tables with matplotlib, then one
+page per figure.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from pathlib import Path
+from typing import Any
+
+from fem.report.blocks import Block, Note, Section, Table, sci
+from fem.report.convergence_figure import quantity_label
+from fem.report.html import render_html
+from fem.report.pdf import write_pdf
+from fem.report.section_note import (
+    section_comparison,
+    section_fe,
+    section_hand,
+    section_verdict_words,
+)
+from fem.results import CAUTION, atomic_write
+
+__all__ = ["design_note", "write_report"]
+
+# ----------------------------------------------------------------------------- content
+
+def _units(res: Any) -> tuple[str, str, str]:
+    u = res.result.units
+    return u["length"], u["force"], u["stress"]
+
+
+def _where(p: Any) -> str:
+    if p.edge:
+        return f"{p.edge} edge"
+    if p.start is not None:
+        return f"from ({p.start[0]:g}, {p.start[1]:g}) to ({p.end[0]:g}, {p.end[1]:g})"
+    if p.hole is not None:
+        return f"pin bearing on hole {p.hole}"
+    if p.width == 0:
+        return f"point at ({p.at[0]:g}, {p.at[1]:g})"
+    return f"patch at ({p.at[0]:g}, {p.at[1]:g}), width {p.width:g}"
+
+
+def _inputs(res: Any) -> Section:
+    c, (L, F, S) = res.case, _units(res)
+    m, g = c.material, c.geometry
+    s = Section("Inputs")
+    s.items.append(Table(["item", "value"], [
+        ["case file", c.file], ["kind", c.kind],
+        ["units", f"length {L}, force {F}, stress {S}"],
+        ["material", f"E = {sci(m.E)} {S}, ν = {m.nu:g}"
+         + (f", thickness t = {m.thickness:g} {L}" if c.kind == "beam" else "")
+         + (f", yield {m.yield_stress:g} {S}" if m.yield_stress else "")],
+        ["model", m.model],
+        ["mesh", f"size {c.mesh.size:g} {L}, order {c.mesh.order}, {c.mesh.levels} level(s) "
+                 f"halving the size, at most {c.mesh.max_dofs} dofs"
+         + "".join(f"; refined to {r.size:g} {L} within {r.radius:g} {L} of "
+                   f"({r.at[0]:g}, {r.at[1]:g})" for r in c.mesh.refine)],
+        ["hand method", f"{c.check.method}, tolerance {c.check.tolerance:.0%}"
+         + (f", your hand value {c.check.hand_value:g} {S}" if c.check.hand_value else "")],
+    ], "Case data"))
+    if c.kind != "beam":
+        s.items.append(Table(["parameter", f"value [{L}]"],
+                             [[k, str(v)] for k, v in g.params.items()],
+                             f"Section: {g.shape}"))
+        s.items.append(Block(f"Shear force [Vx, Vy] = [{c.shear[0]:g}, {c.shear[1]:g}] {F}, "
+                             "through the shear centre."))
+        return s
+    rows = [["outline", f"rectangle {g.length:g} × {g.depth:g} {L} (x from 0, y from 0)"
+             if g.shape == "rectangle" else f"polygon of {len(g.points)} points"]]
+    rows += [[f"hole {k}", f"centre ({h.center[0]:g}, {h.center[1]:g}) {L}, radius "
+              f"{h.radius:g} {L}"] for k, h in enumerate(g.holes)]
+    rows += [[f"cut-out {k}", f"corner ({q.corner[0]:g}, {q.corner[1]:g}), size "
+              f"{q.size[0]:g} × {q.size[1]:g} {L}, fillet {q.fillet:g} {L}"]
+             for k, q in enumerate(g.cutouts)]
+    rows += [[f"zone {k}", f"corner ({z.corner[0]:g}, {z.corner[1]:g}), size {z.size[0]:g} × "
+              f"{z.size[1]:g} {L}, thickness {z.thickness:g} {L}"] for k, z in enumerate(g.zones)]
+    s.items.append(Table(["part", "description"], rows, "Geometry"))
+    s.items.append(Table(["support", "where", "restrains"],
+                         [[f"support-{k}", _where(p.where), p.fix]
+                          for k, p in enumerate(c.supports)], "Supports"))
+    s.items.append(Table(["load", "where", f"force (Fx, Fy) [{F}]", "distribution"],
+                         [[f"load-{k}", _where(q.where), f"({sci(q.force[0])}, {sci(q.force[1])})",
+                           q.distribution] for k, q in enumerate(c.loads)], "Loads"))
+    return s
+
+
+def _hand(res: Any) -> Section:
+    (L, F, S), r = _units(res), res.result
+    if res.case.kind != "beam":
+        return section_hand(res)
+    s = Section("Hand calculation")
+    s.items.append(Block(
+        "At each cut x the section is the stack of material strips met by the vertical line "
+        "(width b = plate thickness t). V and M come from statics of the member as a beam on "
+        "the idealised supports; M is taken about the centroid of the cut. The shear formula "
+        "τ = VQ/(Ib) is evaluated over the depth and its largest value is shown; Q is the "
+        "first moment of the area above that level about the centroid."))
+    hands = res.run.finest.cuts_hand if res.run is not None else []
+    A2, A3, A4 = f"{L}²", f"{L}³", f"{L}⁴"
+    for i, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
+        sec = h.section
+        yq = h.y_at_tau_max
+        Q = float(sec.first_moment(yq))
+        b = float(sec.width(yq))
+        cfib = sec.fibre_distance()
+        strips = " + ".join(f"{t:g}×{sci(y1 - y0)}" for y0, y1, t in sec.strips)
+        lines = [
+            f"Cut {i}, x = {c.x:g} {L}: material from y = "
+            + ", ".join(f"{sci(y0)} to {sci(y1)}" for y0, y1, _ in sec.strips) + f" {L}",
+            f"  A = Σ t·h = {strips} = {sci(c.A)} {A2}",
+            f"  ȳ = {sci(c.centroid_y)} {L};   I = Σ t[(y₁−ȳ)³ − (y₀−ȳ)³]/3 = {sci(c.I)} {A4}",
+            f"  V = {sci(c.V_hand)} {F};   M = {sci(c.M_hand)} {F}·{L}"
+            + (f";   N = {sci(c.N_hand)} {F}" if abs(c.N_hand) > 0 else ""),
+            f"  at y = {sci(yq)} {L}:  Q = {sci(Q)} {A3},  b = {sci(b)} {L}",
+            f"  τ = VQ/(Ib) = {sci(abs(c.V_hand))} × {sci(Q)} / ({sci(c.I)} × {sci(b)}) "
+            f"= {sci(c.tau_formula_hand)} {S}",
+            f"  V/A = {sci(abs(c.V_hand))} / {sci(c.A)} = {sci(c.tau_avg_hand)} {S}",
+            (f"  σ = |N|/A + |M|c/I = {sci(abs(c.N_hand))}/{sci(c.A)} + "
+             if abs(c.N_hand) > 0 else "  σ = |M|c/I = ")
+            + f"{sci(abs(c.M_hand))} × {sci(cfib)} / {sci(c.I)} = {sci(c.sigma_x_max_hand)} {S}"
+            + f"   (c = {sci(cfib)} {L})",
+        ]
+        if r.hand_method != "shear-formula":
+            lines.append(f"  hand value of the {r.hand_method} method: {sci(c.tau_max_hand)} {S}")
+        s.items.append(Block("\n".join(lines), "formula"))
+    return s
+
+
+def _fe(res: Any) -> Section:
+    (L, F, S), r = _units(res), res.result
+    s = Section("Finite-element model")
+    m = r.mesh
+    rows = []
+    if m is not None:
+        elem = (f"{'quadratic (6-node)' if m.order == 2 else 'linear (3-node)'} triangles"
+                + (", curved edges" if m.curved else ""))
+        rows += [["elements", f"{m.elements} {elem}"], ["nodes", str(m.nodes)],
+                 ["degrees of freedom", str(m.dofs)],
+                 ["element size (finest level)", f"{m.size:g} {L}"]]
+    e = r.equilibrium
+    if e is not None:
+        ref = math.hypot(*e.applied)
+        rows += [["applied load (Fx, Fy)",
+                  f"({sci(e.applied[0], ref=ref)}, {sci(e.applied[1], ref=ref)}) {F}"],
+                 ["support reactions (Rx, Ry)",
+                  f"({sci(e.reactions[0], ref=ref)}, {sci(e.reactions[1], ref=ref)}) {F}"],
+                 ["equilibrium error |ΣF|/|F|", f"{e.relative_error:.1e}"]]
+    t = r.timings
+    rows.append(["time: mesh / assemble / solve / post",
+                 f"{t.mesh:.2f} / {t.assemble:.2f} / {t.solve:.2f} / {t.post:.2f} s"])
+    s.items.append(Table(["item", "value"], rows))
+    if r.peak is not None:
+        p, ys = r.peak, res.case.material.yield_stress
+        head = ["quantity", f"FE peak [{S}]", f"at (x, y) [{L}]"] + (["of yield"] if ys else [])
+        body = []
+        for name, v, at in (("|τxy|", p.tau_max, p.tau_at),
+                            ("von Mises", p.von_mises_max, p.von_mises_at),
+                            ("max principal σ1", p.principal_max, p.principal_at)):
+            body.append([name, sci(v), f"({sci(at[0])}, {sci(at[1])})"]
+                        + ([f"{v / ys:.0%}"] if ys else []))
+        s.items.append(Table(head, body, "Peaks outside the excluded zones (finest mesh)"))
+    return s
+
+
+def _comparison(res: Any) -> Section:
+    (L, F, S), r = _units(res), res.result
+    s = Section("FE against hand")
+    tol = r.tolerance
+    if res.case.kind != "beam":
+        return section_comparison(res)
+    forces, stresses, bad = [], [], set()
+    for i, c in enumerate(r.cuts, start=1):
+        over = c.ratio is not None and c.ratio > 1 + tol
+        status = ("no hand shear" if c.ratio is None else
+                  f"exceeds by {c.ratio - 1:.0%}" if over else "within tolerance")
+        if over:
+            bad.add(i - 1)
+        forces.append([str(i), f"{c.x:g}", sci(c.V_fe), sci(c.V_hand), sci(c.M_fe),
+                       sci(c.M_hand), sci(c.N_fe), sci(c.N_hand)])
+        stresses.append([str(i), f"{c.x:g}", sci(c.tau_max_fe), sci(c.y_at_tau_max_fe),
+                         sci(c.tau_max_hand), "–" if c.ratio is None else f"{c.ratio:.3f}",
+                         status, sci(c.sigma_x_max_fe), sci(c.sigma_x_max_hand)])
+    s.items.append(Table(
+        ["cut", f"x [{L}]", f"τmax FE [{S}]", f"at y [{L}]", f"τ hand [{S}]", "FE / hand",
+         "shear check", f"|σx| max FE [{S}]", f"|σx| max hand [{S}]"], stresses,
+        f"Peak stresses at each cut: τ hand is the {r.hand_method} value, FE from the finest "
+        f"mesh; tolerance {tol:.0%}", marked=bad))
+    s.items.append(Table(
+        ["cut", f"x [{L}]", f"V FE [{F}]", f"V hand [{F}]", f"M FE [{F}·{L}]",
+         f"M hand [{F}·{L}]", f"N FE [{F}]", f"N hand [{F}]"], forces,
+        "Resultants at each cut: FE integrated over the cut, hand from statics"))
+    return s
+
+
+def _verdict_words(res: Any) -> str:
+    r = res.result
+    tol = r.tolerance
+    if r.kind == "beam" and r.cuts:
+        over = [c for c in r.cuts if c.ratio is not None and c.ratio > 1 + tol]
+        worst = max((c for c in r.cuts if c.ratio is not None), key=lambda c: c.ratio,
+                    default=None)
+        L = r.units["length"]
+        if r.verdict == "unsafe" and over and worst is not None:
+            return (f"The {r.hand_method} check is unsafe for this member: the FE shear stress "
+                    f"exceeds the hand value by more than {tol:.0%} at {len(over)} of "
+                    f"{len(r.cuts)} cuts, by up to {worst.ratio - 1:.0%} at x = {worst.x:g} {L}.")
+        if r.verdict == "holds" and worst is not None:
+            return (f"The {r.hand_method} check holds: at no cut does the FE shear stress exceed "
+                    f"the hand value by more than {tol:.0%} (largest ratio {worst.ratio:.3f} at "
+                    f"x = {worst.x:g} {L}), and the governing FE figure has converged.")
+    if r.kind == "section":
+        words = section_verdict_words(res)
+        if words:
+            return words
+    reasons = {"unsafe": "the FE exceeds the hand value beyond the tolerance (see findings)",
+               "holds": "the FE stays within the tolerance of the hand value",
+               "inconclusive": "the governing FE figure has not converged, only one mesh was "
+                               "run, or a singular point governs (see findings)"}
+    return f"Verdict {r.verdict}: {reasons.get(r.verdict, '')}."
+
+
+def _findings(res: Any) -> Section:
+    r = res.result
+    s = Section("Verdict and findings")
+    s.items.append(Block(f"{r.verdict.upper()}. {_verdict_words(res)}", f"verdict-{r.verdict}"))
+    main = [f for f in r.findings if f.kind != "excluded"]
+    for f in main:
+        s.items.append(Block(f"{f.kind}: {f.message}", "finding"))
+    if not main:
+        s.items.append(Block("No findings."))
+    excl = [f for f in r.findings if f.kind == "excluded"]
+    if excl:
+        L = r.units["length"]
+        rows = []
+        for f in excl:
+            m = re.search(r"within (\S+) .*left out: (.*) is an idealisation", f.message)
+            rows.append([f"({sci(f.at[0])}, {sci(f.at[1])})", m[1] if m else "",
+                         m[2] if m else f.message])
+        s.items.append(Table([f"centre (x, y) [{L}]", f"radius [{L}]", "idealisation"], rows,
+                             "Left out of the peaks: zones around boundary idealisations, "
+                             "whose local stress has no finite limit"))
+    return s
+
+
+def _convergence(res: Any) -> Section:
+    r, (L, _, S) = res.result, _units(res)
+    s = Section("Convergence study")
+    cv = r.convergence
+    if cv is None or len(cv.sizes) < 2:
+        s.items.append(Block("One mesh only: the FE figures carry no discretisation error "
+                             "estimate. Set mesh.levels to 3 for a convergence study."))
+        return s
+    s.items.append(Block(
+        f"Each level halves the element size. Governing quantity: "
+        f"{quantity_label(cv.quantity, L)}: "
+        f"extrapolated {sci(cv.extrapolated)} {S}, fine-grid GCI "
+        f"{'n/a' if cv.gci is None else f'{cv.gci:.2%}'} (Celik et al. 2008; converged when "
+        f"within 5 % and monotone, or changing by less than 0.5 % between the two finest "
+        f"meshes): {'converged' if cv.converged else 'not converged'}."))
+    head = ["quantity"] + [f"h = {h:g}" for h in cv.sizes] + ["order", "extrapolated", "GCI",
+                                                             "converged"]
+    rows = [["dofs"] + [str(d) for d in cv.dofs] + ["", "", "", ""]] if cv.dofs else []
+    marked = set()
+    governing = {"values": cv.tau_max, "observed_order": cv.observed_order,
+                 "extrapolated": cv.extrapolated, "gci": cv.gci, "converged": cv.converged,
+                 "singular": cv.singular}
+    quantities = {k: ({**governing, **q} if list(q["values"]) == list(cv.tau_max) else q)
+                  for k, q in cv.quantities.items()}
+    if not any(list(q["values"]) == list(cv.tau_max) for q in quantities.values()):
+        quantities = {cv.quantity: governing, **quantities}
+    for name, q in quantities.items():
+        gci = q.get("gci")
+        if list(q["values"]) == list(cv.tau_max):
+            marked.add(len(rows))
+        rows.append([quantity_label(name, L)] + [sci(v) for v in q["values"]]
+                    + [sci(q.get("observed_order"), 3), sci(q.get("extrapolated")),
+                       "–" if gci is None else f"{gci:.2%}",
+                       ("singular" if q.get("singular") else "–" if "converged" not in q
+                        else "yes" if q["converged"] else "no")])
+    s.items.append(Table(head, rows, f"Stresses in {S}, sizes h in {L}; the governing "
+                         "quantity is highlighted", marked=marked))
+    return s
+
+
+def _assumptions(res: Any) -> Section:
+    c = res.case
+    if c.kind == "beam":
+        model = ("plane stress (thin plate, σzz = 0)" if c.material.model == "plane-stress"
+                 else "plane strain (εzz = 0)")
+        lines = [
+            f"Two-dimensional model of the member in its plane, {model}.",
+            "Linear elastic, isotropic material; small strains and displacements; static load.",
+            "Supports and loads as idealised in the case: point supports, point loads and the "
+            "ends of clamped or loaded stretches have no finite local stress, so small zones "
+            "around them are left out of the peaks.",
+            "Hand values follow elementary beam theory (plane sections remain plane) on the "
+            "idealised supports, with the section of each cut.",
+            "Stresses are recovered at element vertices and averaged at nodes for contours and "
+            "peaks; cut profiles interpolate the element stresses.",
+        ]
+    else:
+        lines = ["Saint-Venant flexure of a prismatic bar: linear elastic, isotropic, small "
+                 "strain; the shear acts through the shear centre (no twist).",
+                 "Hand values: the shear formula VQ/(Ib) at its worst cut and the average V/A."]
+    s = Section("Assumptions and limits")
+    s.items += [Block(t, "bullet") for t in lines]
+    s.items.append(Block(CAUTION, "caution"))
+    return s
+
+
+_CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), with the cuts, "
+                              "supports, loads and the excluded zones.",
+             "von-mises-contour": "Von Mises stress over the member (finest mesh).",
+             "section-shear": "Shear stress magnitude |τ| over the section under the case's "
+                              "shear, with the shear flow (arrows) and the FE peak.",
+             "neutral-axis-profile": "FE and hand shear stress along the neutral axis.",
+             "convergence": "Convergence: the governing FE figure against element size with "
+                            "the extrapolated value and the GCI band; every tracked quantity's "
+                            "distance from its extrapolated value."}
+
+
+def _caption(res: Any, p: Path) -> str:
+    if p.stem in _CAPTIONS:
+        return _CAPTIONS[p.stem]
+    if p.stem.startswith("profile-") and res.result.cuts:
+        k = int(p.stem.split("-")[1])
+        if k <= len(res.result.cuts):
+            return (f"Cut {k} at x = {res.result.cuts[k - 1].x:g} {res.result.units['length']}: "
+                    "FE and hand shear and normal stresses over the depth.")
+    return p.stem.replace("-", " ").capitalize() + "."
+
+
+def design_note(res: Any, figures: list[Path]) -> Note:
+    """The content of the design note of a finished check."""
+    r = res.result
+    sections = [_findings(res), _inputs(res), _hand(res)]
+    if r.kind == "beam":
+        sections.append(_fe(res))
+    else:
+        sections.append(section_fe(res))
+    sections += [_comparison(res), _convergence(res), _assumptions(res)]
+    figs = [(Path(p), _caption(res, Path(p))) for p in figures if Path(p).suffix == ".png"]
+    return Note(title=r.title, subtitle=f"case {r.case} · {r.kind} check · shearcheck",
+                verdict=r.verdict, sections=sections, figures=figs)
+
+
+def write_report(res: Any, folder: Path, figures: list[Path] | None = None) -> list[Path]:
+    """report.html and report.pdf of a finished check into `folder`; return their paths.
+
+    `figures` are the PNG files to include (default: those the check has written).
+    """
+
+    folder = Path(folder)
+    note = design_note(res, list(figures if figures is not None else res.figures))
+    out_html = folder / "report.html"
+    atomic_write(out_html, render_html(note).encode("utf-8"))
+    out_pdf = folder / "report.pdf"
+    write_pdf(note, out_pdf)
+    return [out_html, out_pdf]

@@ -1,0 +1,69 @@
+"""`shearcheck hand` for a section: properties and hand shear stresses, written out as in a calc.
+
+No mesh, no solve: the same hand side the FE check compares against (`classical.sections`,
+`classical.shear`), with every FE figure null in results.json (`fem.api.hand_check`).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from classical.sections import (
+    chord_length,
+    first_moment_above,
+    polygon_properties,
+    section_outline,
+)
+from classical.shear import average_shear, direct_shear, max_shear_formula
+from fem.case.model import Case
+from fem.results import Result, Timings
+
+__all__ = ["section_hand_result"]
+
+
+def _units(case: Case) -> dict[str, str]:
+    return {"length": case.units.length, "force": case.units.force, "stress": case.units.stress}
+
+
+def section_hand_result(case: Case) -> tuple[Result, list[str]]:
+    """Section properties and hand shear stresses of a section case."""
+    g = case.geometry
+    outline = section_outline(g.shape, **g.params)  # type: ignore[union-attr]
+    p = polygon_properties(outline)
+    Vx, Vy = case.shear
+    L, F, S = case.units.length, case.units.force, case.units.stress
+    V = float(np.hypot(Vx, Vy))
+    mx = max_shear_formula(outline, abs(Vy)) if Vy else None
+    tau_formula = mx.tau_max if mx is not None else float("nan")
+    avg = average_shear(V, p.A)
+    method = case.check.method
+    if method == "shear-formula":
+        tau_hand = tau_formula
+    elif method == "double-shear":
+        tau_hand = direct_shear(V, p.A, 2)
+    else:
+        tau_hand = avg if method == "average" else direct_shear(V, p.A, 1)
+    lines = [f"Hand calculation: {case.title} ({case.name})",
+             f"Section {g.shape} {g.params}; units {L}, {F}; stress {S}",  # type: ignore
+             f"  A = {p.A:.6g} {L}2, centroid = ({p.cx:.5g}, {p.cy:.5g}) {L}",
+             f"  Ixx = {p.Ixx:.6g}, Iyy = {p.Iyy:.6g}, Ixy = {p.Ixy:.6g} {L}4",
+             f"  shear V = [{Vx:g}, {Vy:g}] {F}"]
+    if mx is not None:
+        q = first_moment_above(outline, mx.y_at)
+        b = chord_length(outline, mx.y_at)
+        lines.append(f"  shear formula (Vy) worst cut y = {mx.y_at:.4g} {L}: tau = V Q/(I b) = "
+                     f"{abs(Vy):.6g} x {q:.6g} / ({p.Ixx:.6g} x {b:.4g}) = {tau_formula:.4g} {S}")
+    lines.append(f"  average V/A = {V:.6g}/{p.A:.6g} = {avg:.4g} {S}")
+    if method in ("single-shear", "double-shear"):
+        n = 1 if method == "single-shear" else 2
+        lines.append(f"  {method}: F/({n}A) = {tau_hand:.4g} {S}")
+    section = {"A": p.A, "I": {"xx": p.Ixx, "yy": p.Iyy, "xy": p.Ixy},
+               "centroid": [p.cx, p.cy], "shear_centre": None, "J": None, "tau_max_fe": None,
+               "tau_at": None, "tau_max_hand": tau_formula if mx is not None else None,
+               "tau_avg_hand": avg, "ratio": None, "tau_method_hand": tau_hand,
+               "neutral_axis": {"s": [], "tau_fe": [], "tau_hand": []}}
+    res = Result(case=case.name, kind="section", title=case.title, units=_units(case),
+                 mesh=None, verdict="inconclusive", findings=[], timings=Timings(),
+                 convergence=None, section=section, hand_method=method,
+                 tolerance=case.check.tolerance, hand_calculation=lines)
+    return res, lines
