@@ -55,6 +55,10 @@ __all__ = [
     "GCI_LIMIT",
     "SETTLED",
     "accepted",
+    "acceptance",
+    "Acceptance",
+    "ORDER_WINDOW",
+    "SETTLED_BEFORE",
     "SAFETY_FACTOR_THREE_GRID",
     "SAFETY_FACTOR_TWO_GRID",
     "SINGULAR_SLOPE_THRESHOLD",
@@ -534,9 +538,79 @@ def williams_lambda(angle_deg: float) -> float:
     return float(brentq(_williams_residual, lo, hi, args=(alpha,), xtol=1e-14))
 
 
-def accepted(est: ConvergenceEstimate, limit: float = GCI_LIMIT,
-             settled: float = SETTLED) -> bool:
-    """The project's convergence rule: GCI within `limit` and converging monotonically
-    (`ConvergenceEstimate.converged`), or a change below `settled` between the finest two."""
+ORDER_WINDOW: tuple[float, float] = (0.5, 2.0)
+"""Observed orders accepted, as multiples of the element's formal order (P2 stresses: 1 to 4).
+
+Celik et al. (2008) warn that an observed order far from the formal one means the grids are
+not in the asymptotic range; the GCI is then no error bound. Too high an order is the
+dangerous side (it shrinks the GCI): above twice the formal order the study is not accepted
+on its GCI. Too low (below half) means the quantity converges slower than the element can,
+which is a weak singularity or a pre-asymptotic mesh: refine, or read the singular finding.
+Recovered vertex stresses of P2 elements reach about 3 (superconvergence), inside the window.
+"""
+
+SETTLED_BEFORE: float = 8 * SETTLED
+"""With three or more levels, a change below `SETTLED` between the two finest meshes counts as
+settled only if the change before it was below this (4 %): a quantity converging at any
+order up to 3 under halving (eps32 = 2**p eps21) passes, a genuine oscillation or a coarse
+pair of meshes that happen to agree does not (common practice)."""
+
+
+@dataclass(frozen=True)
+class Acceptance:
+    """Whether a study's finest value is accepted, and in words why (or why not)."""
+
+    converged: bool
+    reason: str
+
+
+def acceptance(est: ConvergenceEstimate, limit: float = GCI_LIMIT, settled: float = SETTLED,
+               formal_order: float = DEFAULT_FORMAL_ORDER) -> Acceptance:
+    """The project's convergence rule, one row per outcome (first that applies):
+
+    ======================================================  ==========  ====================
+    condition                                               converged   reason
+    ======================================================  ==========  ====================
+    change between the two finest below `settled` (and,    yes         settled
+    with 3+ levels, the change before below
+    `SETTLED_BEFORE`)
+    oscillating levels (eps32/eps21 < 0)                    no          oscillating
+    change grows under refinement (|eps21| >= |eps32|)      no          not converging
+    no GCI can be formed                                    no          no estimate
+    observed order outside `ORDER_WINDOW` x formal order    no          order far from ...
+    GCI above `limit`                                       no          GCI above limit
+    otherwise                                               yes         GCI within limit
+    ======================================================  ==========  ====================
+
+    All tests are on relative changes and ratios of element sizes: scale-free.
+    """
+    v = est.values
     small = est.approx_rel_error is not None and est.approx_rel_error <= settled
-    return est.converged(limit) or small
+    if small and len(v) >= 3 and v[0] != 0.0:
+        small = abs(v[2] - v[1]) / abs(v[0]) <= SETTLED_BEFORE
+    gci = "n/a" if est.gci is None else f"{est.gci:.1%}"
+    if small:
+        return Acceptance(True, f"settled: changed {est.approx_rel_error:.2%} between the two "
+                                f"finest meshes (below {settled:.1%})")
+    if est.oscillating:
+        return Acceptance(False, "the levels oscillate (the value rises and falls under "
+                                 "refinement), so no error bound exists")
+    if not est.converging:
+        return Acceptance(False, "the change between meshes grows under refinement")
+    if est.gci is None:
+        return Acceptance(False, "no error estimate could be formed from the levels")
+    p = est.observed_order
+    lo, hi = ORDER_WINDOW[0] * formal_order, ORDER_WINDOW[1] * formal_order
+    if p is not None and not lo <= p <= hi:
+        return Acceptance(False, f"the observed order {p:.2g} is far from the element's "
+                                 f"{formal_order:g} (accepted {lo:g} to {hi:g}): the meshes "
+                                 "are not yet in the asymptotic range")
+    if est.gci > limit:
+        return Acceptance(False, f"GCI {gci} is above the {limit:.0%} limit")
+    return Acceptance(True, f"GCI {gci} within the {limit:.0%} limit")
+
+
+def accepted(est: ConvergenceEstimate, limit: float = GCI_LIMIT,
+             settled: float = SETTLED, formal_order: float = DEFAULT_FORMAL_ORDER) -> bool:
+    """`acceptance(...).converged`: the project's convergence rule as a yes/no."""
+    return acceptance(est, limit, settled, formal_order).converged

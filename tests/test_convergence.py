@@ -339,3 +339,70 @@ def test_module_docstring_example_runs() -> None:
     """The module's own doctest (manufactured phi = 10 + 3 h**2) must pass."""
     result = doctest.testmod(convergence)
     assert result.attempted > 0 and result.failed == 0
+
+
+# ----------------------------------------------------------------- the acceptance rule
+# `acceptance` decides whether a governing quantity has converged, so each of its rows is
+# tested here at its boundary (values chosen by hand; h halves: 1, 2, 4).
+
+from dataclasses import replace  # noqa: E402
+
+from fem.convergence import SETTLED_BEFORE, acceptance, accepted  # noqa: E402
+
+H3 = [1.0, 2.0, 4.0]
+
+
+def test_settled_boundary_accepts_noise_just_below_and_refuses_just_above():
+    """An oscillation of 0.499 % between the finest two is sampling noise (settled); of
+    0.501 % it is an oscillating study with no error bound (SETTLED = 0.5 %)."""
+    below = gci_study(H3, [100.0, 100.499, 100.0])
+    above = gci_study(H3, [100.0, 100.501, 100.0])
+    assert below.oscillating and above.oscillating
+    assert accepted(below) and acceptance(below).reason.startswith("settled")
+    assert not accepted(above) and "oscillate" in acceptance(above).reason
+
+
+def test_two_coarse_meshes_that_agree_after_a_big_change_are_not_settled():
+    """0.3 % between the finest two after 9.7 % before (above SETTLED_BEFORE = 4 %): an
+    observed order of about 5, outside the window, so not converged."""
+    est = gci_study(H3, [100.0, 100.3, 110.0])
+    assert abs(est.values[2] - est.values[1]) / est.values[0] > SETTLED_BEFORE
+    a = acceptance(est)
+    assert not a.converged and "observed order" in a.reason
+
+
+def _converging(gci: float, order: float = 2.0):
+    """A converging, non-oscillating 3-grid estimate with the given GCI and order, its
+    change between the finest two above SETTLED so the GCI row decides."""
+    est = gci_study(H3, [100.0, 101.0, 105.0])
+    return replace(est, gci=gci, observed_order=order)
+
+
+def test_gci_limit_boundary():
+    """GCI at the limit (5 %) is accepted, just above it is not."""
+    assert accepted(_converging(0.05))
+    a = acceptance(_converging(0.050001))
+    assert not a.converged and "above the 5% limit" in a.reason
+
+
+def test_observed_order_window():
+    """P2 stresses (formal order 2): observed orders 1 to 4 accepted, outside refused."""
+    lo, hi = 1.0, 4.0
+    assert accepted(_converging(0.01, hi)) and accepted(_converging(0.01, lo))
+    assert not accepted(_converging(0.01, hi * 1.01))
+    assert not accepted(_converging(0.01, lo * 0.99))
+    assert accepted(_converging(0.01, 1.0), formal_order=1.0)   # P1: 0.5 to 2
+
+
+def test_a_diverging_study_is_not_converged_and_says_so():
+    est = gci_study(H3, [100.0, 104.0, 105.0])   # the change grows under refinement
+    a = acceptance(est)
+    assert not a.converged and "grows" in a.reason
+
+
+def test_a_two_level_study_is_judged_on_its_gci_with_safety_factor_three():
+    """Roache (1994): two grids, assumed order 2, Fs = 3: GCI = 3 |e| / (2^2 - 1) = |e|."""
+    ok = gci_study([1.0, 2.0], [100.0, 104.0])     # e = 4 %: GCI 4 %
+    bad = gci_study([1.0, 2.0], [100.0, 106.0])    # e = 6 %: GCI 6 %
+    assert ok.gci == pytest.approx(0.04) and accepted(ok)
+    assert bad.gci == pytest.approx(0.06) and not accepted(bad)

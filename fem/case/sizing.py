@@ -23,7 +23,12 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
+from shapely.geometry import LineString, Point, Polygon
+
+from classical.sections import section_outline
 from fem.case.model import BeamGeometry, Case, SectionGeometry
+from fem.case.outline import domain_polygon, patches, reentrant_corners
 from fem.errors import CaseError
 
 __all__ = ["estimate_dofs", "level_size", "check_size", "DENSITY", "PERIMETER", "GRADING"]
@@ -57,10 +62,6 @@ def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
 
 
 def _beam_triangles(case: Case, size: float) -> float:
-    from shapely.geometry import Point
-
-    from fem.case.outline import domain_polygon, patches, reentrant_corners
-
     g: BeamGeometry = case.geometry  # type: ignore[assignment]
     dom = domain_polygon(g)
     depth = dom.bounds[3] - dom.bounds[1]
@@ -97,11 +98,6 @@ SECTION_GRADING = 0.3    # fem.section.mesh: size growth per unit distance from 
 
 
 def _section_triangles(case: Case, size: float) -> float:
-    from shapely.geometry import Point, Polygon
-
-    from classical.sections import section_outline
-    from fem.case.outline import reentrant_corners
-
     g: SectionGeometry = case.geometry  # type: ignore[assignment]
     o = section_outline(g.shape, **g.params)
     poly = Polygon(o.outer, list(o.holes))
@@ -135,8 +131,51 @@ def estimate_dofs(case: Case, size: float) -> int:
     return int(min(per_node * nodes, 1e18))
 
 
+DEPTH_SAMPLES = 400   # vertical lines along the load path at which the material depth is read
+
+
+def thinnest_depth(case: Case) -> float:
+    """The smallest depth of material the loads pass through (beam cases), in case units.
+
+    At `DEPTH_SAMPLES` vertical lines strictly between the first and the last support or
+    load (the load path), the total height of material met by the line; the smallest of
+    them. A hole or cut-out reduces it; a tip beyond the last load does not count.
+    """
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]  # beam case: BeamGeometry
+    sup, lds = patches(case, dom)
+    xs = [q[0] for p in sup + lds for q in p.ends]
+    x0, x1 = min(xs), max(xs)
+    y0, y1 = dom.bounds[1] - 1.0, dom.bounds[3] + 1.0
+    if x1 - x0 <= 0.0:
+        return dom.bounds[3] - dom.bounds[1]
+    depths = []
+    for x in np.linspace(x0, x1, DEPTH_SAMPLES + 2)[1:-1]:
+        d = dom.intersection(LineString([(x, y0), (x, y1)])).length
+        if d > 0.0:
+            depths.append(d)
+    return min(depths) if depths else dom.bounds[3] - dom.bounds[1]
+
+
+def check_element_size(case: Case) -> None:
+    """Refuse a member whose element size (coarsest level) exceeds the thinnest depth of
+    material on the load path: such a mesh has no element across the depth that carries the
+    shear, and two such levels can agree closely while both are wrong (a 17 % error once
+    passed as converged), so no convergence study on it can be trusted."""
+    if case.kind != "beam":
+        return   # sections: mesh.size is limited to a quarter of the extent (section_rules)
+    depth = thinnest_depth(case)
+    if case.mesh.size > depth:
+        raise CaseError(case.file, "mesh.size",
+                        f"{case.mesh.size:g} {case.units.length} is larger than the "
+                        f"thinnest depth of material on the load path ({depth:.4g} "
+                        f"{case.units.length}); use at most that, and for a converged "
+                        "study about a quarter of it")
+
+
 def check_size(case: Case) -> None:
-    """Refuse a study whose finest mesh would exceed `mesh.max_dofs` (before any meshing)."""
+    """Refuse a study whose finest mesh would exceed `mesh.max_dofs` (before any meshing),
+    or whose element size exceeds the member's thinnest depth (`check_element_size`)."""
+    check_element_size(case)
     levels = case.mesh.levels
     size = case.mesh.size / 2.0 ** (levels - 1)
     estimate = estimate_dofs(case, size)

@@ -1,8 +1,9 @@
-"""A whole check: the levels of a convergence study, comparison, verdict and result.
+"""A whole member check: the levels of a convergence study, comparison, verdict and result.
 
-`check_beam(case)` runs every level (halving the element size), tracks the governing
-quantities, estimates their discretisation error (GCI, `fem.convergence`), tells singular
-corners from converging peaks, and returns the `Result` plus the finest `Level` for plots.
+`check_beam(case)` runs every level (halving the element size, or sizing adaptive levels by
+the error estimate), compares FE and hand on the finest level, estimates the discretisation
+error of the governing quantities (GCI, `fem.convergence`), tells singular corners from
+converging peaks, decides the verdict (`fem.verdict.decide`) and returns the `BeamRun`.
 """
 
 from __future__ import annotations
@@ -10,61 +11,101 @@ from __future__ import annotations
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
 from fem.case.model import Case
-from fem.case.outline import domain_polygon, reentrant_corners
+from fem.case.outline import Corner, domain_polygon, reentrant_corners
 from fem.case.sizing import estimate_dofs, level_size
-from fem.convergence import GCI_LIMIT, SETTLED, accepted, gci_study, is_singular
+from fem.convergence import acceptance, gci_study, is_singular
 from fem.errors import SolveError
 from fem.member.adapt import next_size_field, representative_size
-from fem.member.compare import beam_findings, cut_results, peak_result, verdict
+from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
 from fem.member.level import Level, excluded_zones, run_level
 from fem.progress import Progress, as_progress
-from fem.results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
+from fem.results import (
+    ConvergenceResult,
+    CutResult,
+    Equilibrium,
+    Finding,
+    MeshInfo,
+    Peak,
+    Result,
+    Timings,
+)
+from fem.verdict import decide
 
-__all__ = ["BeamRun", "check_beam", "GCI_LIMIT", "SETTLED", "ADAPT_GROWTH"]
+__all__ = ["BeamRun", "check_beam", "ADAPT_GROWTH", "CORNER_RADIUS"]
 
 # elements of each adaptive level over the one before: h ratio sqrt(2.2) = 1.48, above the
 # 1.3 Celik et al. (2008) ask of a refinement; bench/bench_speed.py measured 2 and 1.7
 ADAPT_GROWTH = 2.2
 
+# radius, as a fraction of the member depth, of the disc around a sharp re-entrant corner in
+# which its peak is tracked and inside which a domain peak counts as the corner's: small
+# enough to hold only the corner's own field, fixed under refinement so verdicts stay put
+CORNER_RADIUS = 0.05
 
 
 @dataclass
 class BeamRun:
+    """A finished member study: the result and every level (coarsest first)."""
+
     result: Result
     finest: Level
     levels: list[Level]
     concentrations: list[Concentration] = field(default_factory=list)
 
 
-def _study(sizes: list[float], values: list[float]) -> dict:
-    if len(values) < 2:
-        return {"values": values, "observed_order": None, "extrapolated": None, "gci": None,
-                "converged": False, "singular": False}
-    est = gci_study(sizes, values)
-    singular = is_singular(sizes, values)
-    return {"values": values, "observed_order": est.observed_order,
-            "extrapolated": est.extrapolated, "gci": est.gci,
-            "approx_rel_error": est.approx_rel_error,
-            "converged": accepted(est) and not singular,
-            "singular": singular}
-
-
-def _corner_peaks(level: Level, corners: list, radius: float) -> list[float]:
-    p = level.field.p
-    vm = level.field.nodal["von_mises"]
-    out = []
-    for c in corners:
-        near = np.hypot(p[0] - c.at[0], p[1] - c.at[1]) <= radius
-        out.append(float(vm[near].max()) if near.any() else 0.0)
-    return out
+@dataclass(frozen=True)
+class _Singular:
+    corner: Corner
+    values: list[float]     # its von Mises peak on each level
 
 
 def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = None) -> BeamRun:
+    """Run a member case: levels -> findings on the finest -> convergence -> verdict.
+
+    The steps, each a function below: `_run_levels` (mesh, solve, recover, cuts and hand side
+    per level); `cut_results` / `peak_result` / `beam_findings` (FE against hand on the
+    finest mesh, `fem.member.compare`); `concentrations` (holes, fillets, corners);
+    `_quantities` (the GCI study of every tracked figure); `_singular_corners`; the governing
+    quantity and its convergence finding; `decide` (the one verdict rule); `_result`.
+    """
+    levels = _run_levels(case, progress)
+    fin = levels[-1]
+    cuts, peak = cut_results(fin), peak_result(fin)
+    zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
+    findings = beam_findings(case, fin, cuts, peak, zones)
+    study = _study_of(case)
+    conc = concentrations(case, levels, zones, study)
+    findings += concentration_findings(case, conc)
+    quantities = _quantities(levels, cuts, study)
+    quantities.update({c.feature.key: c.study for c in conc if c.study})
+    depth = _depth(case)
+    singular = _singular_corners(case, levels, depth)
+    for s in singular:
+        quantities[f"corner ({s.corner.at[0]:g}, {s.corner.at[1]:g}) von_mises"] = study(
+            [lv.size for lv in levels], s.values)
+    findings += [_singular_finding(case, s) for s in singular]
+    gov_name, gov_cut = _governing(cuts)
+    gov = quantities[gov_name]
+    converged = len(levels) >= 2 and gov["converged"]
+    findings += _convergence_findings(case, levels, gov, gov_cut)
+    tol = case.check.tolerance
+    verdict = decide(findings, tolerance=tol, levels=len(levels), converged=converged,
+                     singular_governs=_singular_governs(peak, singular, CORNER_RADIUS * depth),
+                     converged_feature_excess=any(c.converged and c.ratio is not None
+                                                  and c.ratio > 1 + tol for c in conc))
+    result = _result(case, levels, cuts, peak, findings, verdict.word, quantities, gov_name,
+                     gov_cut, bool(singular), converged)
+    return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
+
+
+def _run_levels(case: Case, progress: Progress | Callable[[str], None] | None) -> list[Level]:
+    """Every level of the study, coarsest first, the progress bar weighted by dofs."""
     levels: list[Level] = []
     xs = None
     n = case.mesh.levels
@@ -88,88 +129,136 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
             levels.append(lv)
     finally:
         prog.close()
-    fin = levels[-1]
-    cuts = cut_results(fin)
-    peak = peak_result(fin)
-    zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
-    findings = beam_findings(case, fin, cuts, peak, zones)
+    return levels
+
+
+def _study_of(case: Case) -> Callable[[list[float], list[float]], dict[str, Any]]:
+    """The GCI study of one quantity over the levels, judged at the element's order."""
+    order = float(case.mesh.order)
+
+    def study(sizes: list[float], values: list[float]) -> dict[str, Any]:
+        if len(values) < 2:
+            return {"values": values, "observed_order": None, "extrapolated": None,
+                    "gci": None, "converged": False, "singular": False,
+                    "reason": "one mesh only"}
+        est = gci_study(sizes, values, formal_order=order)
+        singular = is_singular(sizes, values)
+        ok = acceptance(est, formal_order=order)
+        return {"values": values, "observed_order": est.observed_order,
+                "extrapolated": est.extrapolated, "gci": est.gci,
+                "approx_rel_error": est.approx_rel_error,
+                "converged": ok.converged and not singular, "singular": singular,
+                "reason": ("the value grows with every refinement (singular)" if singular
+                           else ok.reason)}
+
+    return study
+
+
+def _quantities(levels: list[Level], cuts: list[CutResult],
+                study: Callable[[list[float], list[float]], dict[str, Any]]
+                ) -> dict[str, dict[str, Any]]:
+    """The tracked figures over the levels: each cut's tau_max and the domain peaks."""
     sizes = [lv.size for lv in levels]
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
-    depth = dom.bounds[3] - dom.bounds[1]
-    # governing cut: largest ratio on the finest mesh
-    g = int(np.argmax([-1.0 if c.ratio is None else c.ratio for c in cuts]))
-    quantities = {f"cut x={c.x:g} tau_max": _study(sizes, [lv.cuts_fe[i].tau_max
-                                                          for lv in levels])
-                  for i, c in enumerate(cuts)}
+    out = {f"cut x={c.x:g} tau_max": study(sizes, [lv.cuts_fe[i].tau_max for lv in levels])
+           for i, c in enumerate(cuts)}
     for name in ("tau", "von_mises", "principal"):
-        quantities[f"peak {name}"] = _study(sizes, [lv.peaks[name][0] for lv in levels])
-    conc = concentrations(case, levels, zones, _study)  # holes, fillets, sharp corners
-    findings += concentration_findings(case, conc)
-    quantities.update({c.feature.key: c.study for c in conc if c.study})
-    corners = reentrant_corners(dom)
-    singular_at = []
-    r_corner = 0.05 * depth
-    if len(levels) >= 3 and corners:
-        per_level = [_corner_peaks(lv, corners, r_corner) for lv in levels]
-        for j, c in enumerate(corners):
-            vals = [pl[j] for pl in per_level]
-            if is_singular(sizes, vals):
-                singular_at.append((c, vals))
-                quantities[f"corner ({c.at[0]:g}, {c.at[1]:g}) von_mises"] = _study(sizes, vals)
-    # governing: the worst cut's shear; with no hand shear anywhere (a member in pure
-    # tension) the domain's principal-stress peak
-    no_shear = all(c.ratio is None for c in cuts)
-    gov_name = "peak principal" if no_shear else f"cut x={cuts[g].x:g} tau_max"
+        out[f"peak {name}"] = study(sizes, [lv.peaks[name][0] for lv in levels])
+    return out
+
+
+def _depth(case: Case) -> float:
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]  # beam case: BeamGeometry
+    return dom.bounds[3] - dom.bounds[1]
+
+
+def _corner_peaks(level: Level, corners: list[Corner], radius: float) -> list[float]:
+    p = level.field.p
+    vm = level.field.nodal["von_mises"]
+    out = []
+    for c in corners:
+        near = np.hypot(p[0] - c.at[0], p[1] - c.at[1]) <= radius
+        out.append(float(vm[near].max()) if near.any() else 0.0)
+    return out
+
+
+def _singular_corners(case: Case, levels: list[Level], depth: float) -> list[_Singular]:
+    """Sharp re-entrant corners whose peak grows with every refinement (needs 3 levels)."""
+    corners = reentrant_corners(domain_polygon(case.geometry))  # type: ignore[arg-type]
+    if len(levels) < 3 or not corners:
+        return []
+    sizes = [lv.size for lv in levels]
+    per_level = [_corner_peaks(lv, corners, CORNER_RADIUS * depth) for lv in levels]
+    out = []
+    for j, c in enumerate(corners):
+        vals = [pl[j] for pl in per_level]
+        if is_singular(sizes, vals):
+            out.append(_Singular(c, vals))
+    return out
+
+
+def _singular_finding(case: Case, s: _Singular) -> Finding:
+    S, L = case.units.stress, case.units.length
+    vals, c = s.values, s.corner
+    growth = vals[-1] / vals[-2] if vals[-2] else math.inf
+    return Finding(kind="singular", at=list(c.at), ratio=float(f"{growth:.4g}"),
+                   message=(f"The sharp {c.angle:.0f} degree re-entrant corner at "
+                            f"({c.at[0]:g}, {c.at[1]:g}) {L} is singular: its peak stress "
+                            f"grows with every refinement ({vals[0]:.4g} to {vals[-1]:.4g} "
+                            f"{S}) and has no finite value. Model the real fillet radius, or "
+                            "read the stress at a stated distance from the corner."))
+
+
+def _singular_governs(peak: Peak, singular: list[_Singular], radius: float) -> bool:
+    """Whether the domain's shear or von Mises peak sits at a singular corner."""
+    return any(math.hypot(at[0] - s.corner.at[0], at[1] - s.corner.at[1]) <= radius
+               for s in singular for at in (peak.tau_at, peak.von_mises_at))
+
+
+def _governing(cuts: list[CutResult]) -> tuple[str, CutResult]:
+    """The governing quantity: the worst cut's shear (largest ratio on the finest mesh);
+    with no hand shear at any cut (a member in pure tension) the principal-stress peak."""
+    g = int(np.argmax([-1.0 if c.ratio is None else c.ratio for c in cuts]))
+    if all(c.ratio is None for c in cuts):
+        return "peak principal", cuts[g]
+    return f"cut x={cuts[g].x:g} tau_max", cuts[g]
+
+
+def _convergence_findings(case: Case, levels: list[Level], gov: dict[str, Any],
+                          cut: CutResult) -> list[Finding]:
+    """A not-converged finding that states the actual reason, if the study is not accepted."""
+    at = [cut.x, cut.y_at_tau_max_fe]
+    if len(levels) < 2:
+        return [Finding(kind="not-converged", at=at, ratio=None, message=(
+            "Only one mesh was run, so the FE figures carry no error estimate; set "
+            "mesh.levels to 3 for a convergence study."))]
+    if gov["converged"]:
+        return []
+    return [Finding(kind="not-converged", at=at, ratio=None, message=(
+        f"The governing shear at x = {cut.x:g} {case.units.length} has not converged: "
+        f"{gov['reason']}. Refine the mesh (smaller mesh.size or more mesh.levels)."))]
+
+
+def _result(case: Case, levels: list[Level], cuts: list[CutResult], peak: Peak,
+            findings: list[Finding], verdict: str, quantities: dict[str, dict[str, Any]],
+            gov_name: str, gov_cut: CutResult, singular: bool, converged: bool) -> Result:
+    """The member's `Result` (what results.json holds) from the finished study."""
+    fin = levels[-1]
+    sol, mm = fin.sol, fin.mm
     gov = quantities[gov_name]
     S, L = case.units.stress, case.units.length
-    for c, vals in singular_at:
-        growth = vals[-1] / vals[-2] if vals[-2] else math.inf
-        findings.append(Finding(kind="singular", at=list(c.at), ratio=float(f"{growth:.4g}"),
-                                message=(f"The sharp {c.angle:.0f} degree re-entrant corner at "
-                                         f"({c.at[0]:g}, {c.at[1]:g}) {L} is singular: its peak "
-                                         f"stress grows with every refinement ({vals[0]:.4g} to "
-                                         f"{vals[-1]:.4g} {S}) and has no finite value. Model "
-                                         "the real fillet radius, or read the stress at a "
-                                         "stated distance from the corner.")))
-    singular_governs = any(math.hypot(peak.tau_at[0] - c.at[0], peak.tau_at[1] - c.at[1])
-                           <= r_corner or math.hypot(peak.von_mises_at[0] - c.at[0],
-                                                     peak.von_mises_at[1] - c.at[1]) <= r_corner
-                           for c, _ in singular_at)
-    converged = len(levels) >= 2 and gov["converged"]
-    if len(levels) < 2:
-        findings.append(Finding(kind="not-converged", at=[cuts[g].x, cuts[g].y_at_tau_max_fe],
-                                ratio=None, message=("Only one mesh was run, so the FE figures "
-                                                     "carry no error estimate; set mesh.levels "
-                                                     "to 3 for a convergence study.")))
-    elif not gov["converged"]:
-        gci = gov["gci"]
-        findings.append(Finding(kind="not-converged", at=[cuts[g].x, cuts[g].y_at_tau_max_fe],
-                                ratio=None, message=(
-                                    f"The governing shear at x = {cuts[g].x:g} {L} has not "
-                                    f"converged (GCI {'n/a' if gci is None else f'{gci:.1%}'}, "
-                                    f"limit {GCI_LIMIT:.0%}); refine the mesh.")))
-    v = verdict(case, findings, converged, singular_governs)
-    definite_excess = any(f.kind in ("short-beam", "shear-excess", "hand-value", "concentration")
-                          and f.ratio is not None and f.ratio > 1 + case.check.tolerance
-                          for f in findings)
-    if v == "inconclusive" and definite_excess and (converged or len(levels) == 1):
-        v = "unsafe"
-    if v == "inconclusive" and any(c.converged and c.ratio is not None
-                                   and c.ratio > 1 + case.check.tolerance for c in conc):
-        v = "unsafe"  # a converged peak at a hole or fillet above the hand shear decides alone
-    sol, mm = fin.sol, fin.mm
     conv = ConvergenceResult(
-        sizes=sizes, tau_max=gov["values"], observed_order=gov["observed_order"],
-        extrapolated=gov["extrapolated"], gci=gov["gci"], singular=bool(singular_at),
-        converged=converged,
-        quantity=("peak max principal stress (no hand shear at any cut)" if no_shear
-                  else f"tau_max at the governing cut x = {cuts[g].x:g}"),
+        sizes=[lv.size for lv in levels], tau_max=gov["values"],
+        observed_order=gov["observed_order"], extrapolated=gov["extrapolated"],
+        gci=gov["gci"], singular=singular, converged=converged,
+        quantity=("peak max principal stress (no hand shear at any cut)"
+                  if gov_name == "peak principal"
+                  else f"tau_max at the governing cut x = {gov_cut.x:g}"),
         dofs=[lv.sol.basis.N for lv in levels], quantities=quantities)
     timings = Timings(mesh=sum(lv.mm.seconds for lv in levels),
                       assemble=sum(lv.sol.seconds_assemble for lv in levels),
                       solve=sum(lv.sol.seconds_solve for lv in levels),
                       post=sum(lv.seconds_post for lv in levels))
-    result = Result(
+    return Result(
         case=case.name, kind="beam", title=case.title,
         units={"length": L, "force": case.units.force, "stress": S},
         mesh=MeshInfo(nodes=int(mm.mesh.doflocs.shape[1]), elements=int(mm.mesh.nelements),
@@ -177,6 +266,5 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
                       solver=sol.solver, iterations=sol.iterations),
         equilibrium=Equilibrium(applied=list(sol.applied), reactions=list(sol.reaction_total),
                                 relative_error=sol.equilibrium_error),
-        cuts=cuts, peak=peak, convergence=conv, verdict=v, findings=findings, timings=timings,
-        hand_method=case.check.method, tolerance=case.check.tolerance)
-    return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
+        cuts=cuts, peak=peak, convergence=conv, verdict=verdict, findings=findings,
+        timings=timings, hand_method=case.check.method, tolerance=case.check.tolerance)
