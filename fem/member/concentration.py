@@ -63,7 +63,7 @@ from typing import Any
 import numpy as np
 from shapely.geometry import Point, box
 
-from classical.bending import principal_stresses, von_mises_plane
+from classical.bending import principal_stresses
 from classical.coefficients import kirsch_hole_edge_extremes, kt_net_howland
 from fem.case.model import BeamGeometry, Case
 from fem.case.outline import (
@@ -76,7 +76,7 @@ from fem.case.outline import (
 from fem.convergence import ConvergenceInputError, growth_exponent, williams_lambda
 from fem.member.hand import CutHand, hand_at_cut, member_model
 from fem.member.level import ExcludedZone, Level
-from fem.member.recovery import PointLocator
+from fem.member.recovery import PointLocator, von_mises
 from fem.results import Finding
 
 __all__ = [
@@ -254,7 +254,8 @@ def _peaks(level: Level, near: np.ndarray) -> dict[str, Any]:
     return {"peak": peak, "at": (float(xy[0, i]), float(xy[1, i])), "tension": float(s1[i1]),
             "compression": float(s2[i2]), "tau": float(tau[it]),
             "tau_at": (float(xy[0, it]), float(xy[1, it])),
-            "vm": float(von_mises_plane(n["sxx"][near], n["syy"][near], n["txy"][near]).max())}
+            "vm": float(np.max(von_mises(level.field.material, n["sxx"][near], n["syy"][near],
+                                         n["txy"][near])))}
 
 
 def _corner_sample(level: Level, f: Feature, dom, locator: PointLocator) -> float:
@@ -266,7 +267,7 @@ def _corner_sample(level: Level, f: Feature, dom, locator: PointLocator) -> floa
     if not dom.contains(Point(q)):
         return math.nan
     s = level.field.at(locator, np.array([q[0]]), np.array([q[1]]))
-    return float(von_mises_plane(s["sxx"], s["syy"], s["txy"])[0])
+    return float(np.ravel(von_mises(level.field.material, s["sxx"], s["syy"], s["txy"]))[0])
 
 
 def _hand(case: Case, level: Level, x: float, y: np.ndarray,
