@@ -119,3 +119,20 @@ def test_cut_beside_a_hole_is_a_concentration_not_a_short_beam():
     assert not [f for f in res.findings if f.kind == "short-beam"]
     assert res.verdict == "unsafe"
 
+
+
+def test_cut_von_mises_is_plane_strain_for_a_plane_strain_member():
+    """The bar of tests/test_member_solve.py under sigma_xx = 10 in plane strain: at every
+    cut the FE and the hand von Mises stress are sqrt(((10 - 0)^2 + (0 - 3)^2 + (3 - 10)^2)
+    /2) = sqrt(79) = 8.888 (sigma_zz = nu sigma_xx = 3; hand arithmetic), not 10."""
+    import math
+
+    from test_member_solve import BAR
+
+    from fem.member.compare import cut_results
+    from fem.member.level import run_level
+
+    case = parse_case(BAR.format(model="plane-strain"), "bar.toml")
+    cuts = cut_results(run_level(case, case.mesh.size, [50.0]))
+    assert cuts[0].von_mises_max_fe == pytest.approx(math.sqrt(79.0), rel=1e-6)
+    assert cuts[0].von_mises_max_hand == pytest.approx(math.sqrt(79.0), rel=1e-9)
