@@ -21,7 +21,9 @@ __all__ = [
     "bending_stress_at",
     "max_shear_plane",
     "principal_stresses",
+    "shear_yield",
     "von_mises_plane",
+    "von_mises_plane_strain",
 ]
 
 
@@ -84,6 +86,40 @@ def von_mises_plane(sx: ArrayLike, sy: ArrayLike, txy: ArrayLike) -> float | np.
     sigma_vm = sqrt(sx^2 - sx sy + sy^2 + 3 txy^2).  Common practice."""
     sx, sy, txy = np.asarray(sx, float), np.asarray(sy, float), np.asarray(txy, float)
     return _out(np.sqrt(sx * sx - sx * sy + sy * sy + 3.0 * txy * txy))
+
+
+def von_mises_plane_strain(sx: ArrayLike, sy: ArrayLike, txy: ArrayLike,
+                           nu: float) -> float | np.ndarray:
+    """Von Mises equivalent stress for plane strain (eps_z = 0), with the out-of-plane
+    stress sz = nu (sx + sy) of linear isotropic elasticity:
+
+        sigma_vm = sqrt(((sx - sy)^2 + (sy - sz)^2 + (sz - sx)^2) / 2 + 3 txy^2)
+
+    the full 3D J2 form with tyz = tzx = 0.  Stresses in any one unit [F/L^2], nu
+    Poisson's ratio (-1 < nu < 0.5).  Valid for linear elastic plane strain only (sz
+    follows from Hooke's law with eps_z = 0).  Source: J2 form, Timoshenko & Goodier,
+    Theory of Elasticity, 3rd ed., plane strain sz = nu (sx + sy) (from memory); common
+    practice.
+    """
+    if not -1.0 < nu < 0.5:
+        raise ValueError("nu must be in (-1, 0.5)")
+    sx, sy, txy = np.asarray(sx, float), np.asarray(sy, float), np.asarray(txy, float)
+    sz = nu * (sx + sy)
+    j = 0.5 * ((sx - sy) ** 2 + (sy - sz) ** 2 + (sz - sx) ** 2) + 3.0 * txy * txy
+    return _out(np.sqrt(j))
+
+
+def shear_yield(fy: float) -> float:
+    """Von Mises shear yield tau_y = fy / sqrt(3) [F/L^2].
+
+    fy the tensile (uniaxial) yield stress [F/L^2], > 0.  In pure shear tau the von Mises
+    stress is sqrt(3) tau, so yield starts at tau = fy/sqrt(3) = 0.577 fy.  Valid for
+    ductile isotropic metals (the von Mises criterion).  Source: von Mises criterion in
+    pure shear, common practice.
+    """
+    if not fy > 0:
+        raise ValueError("fy must be > 0")
+    return float(fy) / np.sqrt(3.0)
 
 
 def principal_stresses(sx: ArrayLike, sy: ArrayLike, txy: ArrayLike) -> PrincipalStresses:

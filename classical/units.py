@@ -17,10 +17,12 @@ import math
 __all__ = [
     "FORCE_UNITS",
     "LENGTH_UNITS",
+    "OUTPUT_STRESS_UNITS",
     "STRESS_UNITS",
     "convert_force",
     "convert_length",
     "convert_stress",
+    "force_for_stress",
     "stress_factor",
     "stress_unit",
 ]
@@ -46,6 +48,13 @@ STRESS_UNITS: dict[str, float] = {
     "GPa": 1e9,
     "psi": _PSI,
     "ksi": 1e3 * _PSI,
+}
+
+
+#: pascals per unit of the names a case may give as ``[units] stress``
+OUTPUT_STRESS_UNITS: dict[str, float] = {
+    "MPa": 1e6, "kPa": 1e3, "Pa": 1.0, "psi": _PSI, "ksi": 1e3 * _PSI, "N/mm²": 1e6,
+    "GPa": 1e9,
 }
 
 
@@ -96,6 +105,8 @@ def stress_factor(unit: str) -> float:
     """
     if isinstance(unit, str) and unit in STRESS_UNITS:
         return STRESS_UNITS[unit]
+    if isinstance(unit, str) and unit in OUTPUT_STRESS_UNITS:
+        return OUTPUT_STRESS_UNITS[unit]
     if isinstance(unit, str) and "/" in unit and unit.endswith("2"):
         force, length = unit[:-1].split("/", 1)
         if force in FORCE_UNITS and length in LENGTH_UNITS:
@@ -133,3 +144,17 @@ def convert_stress(value: float, from_unit: str, to_unit: str) -> float:
     Units as accepted by :func:`stress_factor`; raises ``ValueError`` otherwise.
     """
     return value * stress_factor(from_unit) / stress_factor(to_unit)
+
+
+def force_for_stress(length: str, stress: str) -> str | None:
+    """The force unit F of :data:`FORCE_UNITS` for which F/length^2 is the stress unit,
+    or None when there is none (e.g. MPa with length in m would need MN).
+
+    Units as accepted by :func:`stress_factor` and keys of :data:`LENGTH_UNITS`; raises
+    ``ValueError`` otherwise.
+    """
+    target = stress_factor(stress) * _lookup(LENGTH_UNITS, length, "length") ** 2
+    for name, newtons in FORCE_UNITS.items():
+        if math.isclose(newtons, target, rel_tol=1e-12):
+            return name
+    return None

@@ -54,3 +54,21 @@ def test_toml_syntax_error_names_the_line():
 def test_zero_load_refused():
     with pytest.raises(CaseError, match="every load is zero"):
         parse_case(_cant().replace("[0.0, -10000.0]", "[0.0, 0.0]"), "z.toml")
+
+
+def test_units_stress_names_the_unit_force_and_length_give():
+    """[units] stress is optional; given, it must be force/length² itself (inputs and
+    results are in that unit, unconverted: CASE-FORMAT.md), and it is the printed name.
+    N and mm give the MPa (1 N/mm² = 1 MPa, exact); kN and mm give the GPa, so asking for
+    MPa there is refused with the force unit that would give it."""
+    plain = parse_case(_cant(), "c.toml")
+    assert plain.units.stress == "MPa" and plain.units.stress_name is None
+    named = parse_case(_cant().replace("[material]", '[units]\nstress = "N/mm²"\n[material]'),
+                       "c.toml")
+    assert named.units.stress == "N/mm²"
+    kn = _cant().replace("[material]", '[units]\nforce = "kN"\nstress = "GPa"\n[material]')
+    assert parse_case(kn, "c.toml").units.stress == "GPa"
+    with pytest.raises(CaseError, match="units.stress.*which is GPa.*force = 'N'"):
+        parse_case(kn.replace('"GPa"', '"MPa"'), "c.toml")
+    with pytest.raises(CaseError, match="units.stress.*'bar' is not allowed"):
+        parse_case(kn.replace('"GPa"', '"bar"'), "c.toml")

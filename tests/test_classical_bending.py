@@ -12,7 +12,9 @@ from classical.bending import (
     bending_stress_at,
     max_shear_plane,
     principal_stresses,
+    shear_yield,
     von_mises_plane,
+    von_mises_plane_strain,
 )
 
 
@@ -79,3 +81,36 @@ def test_arrays_broadcast_and_invariants() -> None:
     assert np.all((p.angle > -math.pi / 2) & (p.angle <= math.pi / 2))
     vm = von_mises_plane(sx, sy, txy)
     assert np.allclose(vm, np.sqrt(p.s1**2 - p.s1 * p.s2 + p.s2**2), rtol=1e-12)
+
+
+def test_von_mises_plane_strain_hand_value() -> None:
+    """Plane strain, sx = 150, sy = txy = 0, nu = 0.25: sz = nu (sx + sy) = 37.5 and
+    sigma_vm = sqrt(((150 - 0)^2 + (0 - 37.5)^2 + (37.5 - 150)^2)/2) = sqrt(18281.25)
+    = 135.208 (hand arithmetic; J2 form with plane-strain sz, from memory), where the
+    plane-stress form gives 150."""
+    assert von_mises_plane_strain(150.0, 0.0, 0.0, 0.25) == pytest.approx(
+        math.sqrt(18281.25), rel=1e-14)
+    assert von_mises_plane_strain(150.0, 0.0, 0.0, 0.25) == pytest.approx(135.208, abs=1e-3)
+    assert von_mises_plane(150.0, 0.0, 0.0) == pytest.approx(150.0)
+
+
+def test_von_mises_plane_strain_shear_and_limits() -> None:
+    """Pure shear has sz = 0, so sqrt(3) tau as in plane stress; nu = 0 is plane stress;
+    equibiaxial sx = sy = s gives sz = 2 nu s and sigma_vm = |1 - 2 nu| s (definition)."""
+    assert von_mises_plane_strain(0.0, 0.0, 50.0, 0.3) == pytest.approx(50.0 * math.sqrt(3))
+    rng = np.random.default_rng(2)
+    sx, sy, txy = rng.normal(size=(3, 20)) * 100
+    assert np.allclose(von_mises_plane_strain(sx, sy, txy, 0.0), von_mises_plane(sx, sy, txy),
+                       rtol=1e-12)
+    assert von_mises_plane_strain(80.0, 80.0, 0.0, 0.3) == pytest.approx(0.4 * 80.0)
+    with pytest.raises(ValueError):
+        von_mises_plane_strain(1.0, 0.0, 0.0, 0.5)
+
+
+def test_shear_yield_is_fy_over_root_3() -> None:
+    """Von Mises in pure shear: sqrt(3) tau_y = fy, so fy = 250 gives tau_y = 144.338
+    (common practice); its von Mises stress is fy."""
+    assert shear_yield(250.0) == pytest.approx(144.3376, rel=1e-6)
+    assert von_mises_plane(0.0, 0.0, shear_yield(250.0)) == pytest.approx(250.0, rel=1e-14)
+    with pytest.raises(ValueError):
+        shear_yield(0.0)

@@ -9,10 +9,12 @@ import pytest
 from classical.units import (
     FORCE_UNITS,
     LENGTH_UNITS,
+    OUTPUT_STRESS_UNITS,
     STRESS_UNITS,
     convert_force,
     convert_length,
     convert_stress,
+    force_for_stress,
     stress_factor,
     stress_unit,
 )
@@ -71,3 +73,15 @@ def test_unknown_units_raise_with_allowed_list() -> None:
         convert_stress(1.0, "bar", "MPa")
     with pytest.raises(ValueError, match="'in'"):
         stress_unit("cm", "N")
+
+
+def test_output_stress_names_and_the_force_that_gives_them() -> None:
+    """N/mm² is the MPa (1 N/mm² = 1e6 N/m², exact); with mm lengths N gives MPa and kN
+    GPa, with m lengths kN gives kPa, with in lengths kip gives ksi; MPa with m lengths
+    would need MN, which is not a force unit here (exact SI definitions, common practice)."""
+    assert OUTPUT_STRESS_UNITS["N/mm²"] == OUTPUT_STRESS_UNITS["MPa"] == 1e6
+    assert set(OUTPUT_STRESS_UNITS) == {"MPa", "kPa", "Pa", "psi", "ksi", "N/mm²", "GPa"}
+    assert stress_factor("N/mm²") == 1e6
+    assert force_for_stress("mm", "MPa") == "N" and force_for_stress("mm", "GPa") == "kN"
+    assert force_for_stress("m", "kPa") == "kN" and force_for_stress("in", "ksi") == "kip"
+    assert force_for_stress("m", "MPa") is None

@@ -158,6 +158,15 @@ def test_kirsch_pure_shear(shear):
     assert c.ratio == pytest.approx(c.tau_peak / tau_net, rel=1e-12)
     (f,) = [f for f in shear.result.findings if f.kind == "concentration"]
     assert f.ratio == pytest.approx(c.ratio, rel=1e-5) and "unsafe" in f.message
+    # the shear nominal VQ/(Ib) of the net section x = 100 (strips 0-95 and 105-200 mm,
+    # t = 1): V = 2000 N, I = (200^3 - 10^3)/12 = 666583.3 mm^4, worst at the hole edge
+    # y = 105 where Q = 95 x 52.5 = 4987.5 mm^3 and b = 1 mm: 14.964 MPa (shear formula,
+    # hand arithmetic); FE |tau_xy| about 2 tau = 20 MPa gives Kt,tau about 1.34
+    tau_vq = 2000.0 * 4987.5 / ((200.0**3 - 10.0**3) / 12.0)
+    assert c.tau_formula == pytest.approx(tau_vq, rel=1e-3)
+    assert c.kt_shear == pytest.approx(c.tau_peak / c.tau_formula, rel=1e-12)
+    assert c.kt_shear == pytest.approx(2.0 * SIGMA / tau_vq, rel=0.03)
+    assert f"Kt,τ = {c.kt_shear:.3g}" in f.message and "Kt = 4 on the applied shear" in f.message
     # the concentration decides: the average shear misses the doubled shear at the hole
     assert shear.result.verdict == "unsafe"
 

@@ -260,3 +260,20 @@ def test_html_renders_in_a_browser(run, tmp_path):
     assert 0.03 < ink < 0.9
     badge = np.abs(img - np.array([0xA5, 0x1D, 0x2D]) / 255.0).max(axis=2) < 0.04
     assert badge.sum() > 500
+
+
+def test_peaks_table_uses_the_von_mises_shear_yield():
+    """fy = 250 MPa: the von Mises shear yield is fy/√3 = 144.3 MPa (von Mises criterion in
+    pure shear, common practice), so a shear peak of 71 MPa uses 71/144.3 = 49 % of it,
+    not 71/250 = 28 %; the von Mises peak 150 MPa uses 150/250 = 60 % of fy."""
+    from fem.report.note import _peaks_table
+    from fem.results import Peak
+
+    p = Peak(tau_max=71.0, tau_at=[1.0, 2.0], von_mises_max=150.0, von_mises_at=[3.0, 4.0],
+             principal_max=160.0, principal_at=[5.0, 6.0])
+    t = _peaks_table(p, 250.0, "mm", "MPa")
+    assert t.rows[0][-1] == "τ/(fy/√3) = 49%"
+    assert t.rows[1][-1] == "σvm/fy = 60%"
+    assert "28%" not in str(t.rows)
+    assert "von Mises shear yield fy/√3 = 144.3 MPa" in t.caption
+    assert len(_peaks_table(p, None, "mm", "MPa").rows[0]) == 3

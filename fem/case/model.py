@@ -41,12 +41,20 @@ SECTION_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
 
 @dataclass(frozen=True)
 class Units:
+    """Length and force of the case; every stress (input and output) is in force/length².
+
+    ``stress_name`` is the optional ``[units] stress`` key: the name to print for that unit
+    (e.g. "N/mm²" for N and mm). `fem.case.parse` accepts it only when it is the unit that
+    length and force give, so no number is ever converted (see README, units).
+    """
+
     length: str = "mm"
     force: str = "N"
+    stress_name: str | None = None
 
     @property
     def stress(self) -> str:
-        return stress_unit(self.length, self.force)
+        return self.stress_name or stress_unit(self.length, self.force)
 
 
 @dataclass(frozen=True)

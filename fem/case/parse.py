@@ -7,12 +7,20 @@ and run from `validate_geometry`, called here too.
 
 from __future__ import annotations
 
+import math
 import re
 import tomllib
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
-from classical.units import FORCE_UNITS, LENGTH_UNITS
+from classical.units import (
+    FORCE_UNITS,
+    LENGTH_UNITS,
+    OUTPUT_STRESS_UNITS,
+    force_for_stress,
+    stress_factor,
+)
 from fem.case.model import (
     DISTRIBUTIONS,
     EDGES,
@@ -135,8 +143,28 @@ def _units(t: Table | None, top: Table) -> Units:
         return Units()
     u = Units(length=t.text("length", "mm", allowed=tuple(LENGTH_UNITS)),
               force=t.text("force", "N", allowed=tuple(FORCE_UNITS)))
+    name = t.text("stress", None, allowed=tuple(OUTPUT_STRESS_UNITS))
+    if name is not None:
+        _same_stress(t, u, name)
+        u = replace(u, stress_name=name)
     t.close()
     return u
+
+
+def _same_stress(t: Table, u: Units, name: str) -> None:
+    """[units] stress must be the unit force/length² itself: inputs (E, yield, hand_value)
+    are in that unit (CASE-FORMAT.md) and the results are reported in it unconverted."""
+    given = OUTPUT_STRESS_UNITS[name]
+    have = stress_factor(u.stress)
+    if math.isclose(given, have, rel_tol=1e-12):
+        return
+    force = force_for_stress(u.length, name)
+    hint = (f"give force = {force!r} with length = {u.length!r} for {name}" if force
+            else f"no force unit gives {name} with length = {u.length!r}")
+    raise t.error("stress", f"{name!r} is not the stress unit of force {u.force!r} and length "
+                            f"{u.length!r}, which is {u.stress}; every stress is read and "
+                            f"reported in that unit, unconverted: {hint}, or leave "
+                            "units.stress out")
 
 
 def _material(t: Table, kind: str) -> Material:

@@ -167,7 +167,7 @@ def adaptive_levels(case: Case, levels: int, growth: float = 2.0) -> list[Adapti
     for _ in range(levels):
         mm = mesh_member(case, case.mesh.size, background=background)
         sol = solve_member(case, mm)
-        field = recover(sol, mm)
+        field = recover(sol, mm, case.material)
         zones = excluded_zones(case, mm.supports, mm.loads)
         eta = error_indicator(field, mm.thickness, C_inv)
         out.append(AdaptiveLevel(mm=mm, sol=sol, field=field, eta=eta,

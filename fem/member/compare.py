@@ -5,19 +5,35 @@ of the chosen method by more than the tolerance at any cut (or exceeds the user'
 hand value); ``inconclusive`` when the governing quantity has not converged or a singular
 point governs; ``holds`` otherwise. Bearing and combined-stress findings inform; they do
 not change the verdict on the shear check.
+
+Finding kinds at a cut name the cause: ``concentration`` when the nearest station is a hole
+or a cut-out (the feature concentrates the shear), ``short-beam`` when it is a load, a
+support or a change of section (a zone end), ``shear-excess`` when none is within a depth.
+With a direct-shear method (single or double shear, tau = F/(n A)) a ``method-excess``
+finding names the method and n at the worst cut.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from classical.bending import von_mises_plane
 from fem.case.model import Case
 from fem.case.outline import domain_polygon
+from fem.member.hand import total_load
 from fem.member.level import ExcludedZone, Level, nearest_station
+from fem.member.recovery import von_mises
 from fem.results import CutResult, Finding, Peak, Profile
 
-__all__ = ["cut_results", "peak_result", "beam_findings", "verdict", "stations"]
+__all__ = ["cut_results", "peak_result", "beam_findings", "verdict", "stations",
+           "DIRECT_PLANES", "FEATURE_STATIONS", "DECIDING"]
+
+#: shear planes n of the direct-shear methods, tau = F/(n A)
+DIRECT_PLANES = {"single-shear": 1, "double-shear": 2}
+#: station names of geometric features whose excess is a concentration, not a short beam
+FEATURE_STATIONS = ("hole ", "cut-out ")
+#: finding kinds whose ratio above 1 + tolerance makes the verdict unsafe
+DECIDING = frozenset({"short-beam", "shear-excess", "hand-value", "concentration",
+                      "method-excess"})
 
 
 def _r(v: float, n: int = 6) -> float:
@@ -30,8 +46,9 @@ def cut_results(level: Level) -> list[CutResult]:
     # beam): no ratio is formed there
     floor = 1e-9 * max((hd.tau_method for hd in level.cuts_hand), default=0.0)
     for fe, hd in zip(level.cuts_fe, level.cuts_hand, strict=True):
-        vm_fe = float(von_mises_plane(fe.sxx, fe.syy, fe.txy).max())
-        vm_hand = float(von_mises_plane(hd.sigma_x, 0.0 * hd.sigma_x, hd.tau).max())
+        mat = level.field.material  # plane strain: sz = nu (sx + sy) on both sides
+        vm_fe = float(np.max(von_mises(mat, fe.sxx, fe.syy, fe.txy)))
+        vm_hand = float(np.max(von_mises(mat, hd.sigma_x, 0.0 * hd.sigma_x, hd.tau)))
         # a cut where the hand side carries no shear (a load-free overhang) has no ratio
         ratio = fe.tau_max / hd.tau_method if hd.tau_method > floor else None
         out.append(CutResult(
@@ -99,8 +116,9 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
         if c.ratio is not None and c.ratio > 1 + tol:
             name, dist = nearest_station(c.x, st)
             near = dist <= depth
-            kind = "short-beam" if near else "shear-excess"
-            why = _why(name, dist, depth) if near else (
+            kind = (("concentration" if name.startswith(FEATURE_STATIONS) else "short-beam")
+                    if near else "shear-excess")
+            why = _why(name, dist, depth, L) if near else (
                 "the stress distribution over the cut departs from the hand method's "
                 "assumption")
             out.append(Finding(kind=kind, at=[c.x, c.y_at_tau_max_fe], ratio=_r(c.ratio),
@@ -108,6 +126,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
                                         f"{c.tau_max_fe:.4g} {S} (y = {c.y_at_tau_max_fe:.4g} "
                                         f"{L}), {100 * (c.ratio - 1):.1f} % above the {method} "
                                         f"value {c.tau_max_hand:.4g} {S}: {why}.")))
+    out += _direct_shear(case, cuts)
     if worst_vm is not None and worst_vm[0] > 1 + tol:
         rv, c = worst_vm
         out.append(Finding(kind="combined-stress", at=[c.x, c.y_at_tau_max_fe], ratio=_r(rv),
@@ -141,11 +160,35 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
     return out
 
 
-def _why(name: str, dist: float, depth: float) -> str:
+def _direct_shear(case: Case, cuts: list[CutResult]) -> list[Finding]:
+    """A `method-excess` finding at the worst cut when a direct-shear hand value
+    tau = F/(n A) (n = 1 single, 2 double shear) is exceeded beyond the tolerance."""
+    n = DIRECT_PLANES.get(case.check.method)
+    over = [c for c in cuts if c.ratio is not None and c.ratio > 1 + case.check.tolerance]
+    if n is None or not over:
+        return []
+    c = max(over, key=lambda q: q.ratio)
+    L, F, S = case.units.length, case.units.force, case.units.stress
+    words = "single" if n == 1 else "double"
+    force = total_load(case)
+    formula, split = ("F/A", f"{c.A:.4g} {L}²") if n == 1 else (
+        f"F/({n} A)", f"({n} × {c.A:.4g} {L}²)")
+    return [Finding(kind="method-excess", at=[c.x, c.y_at_tau_max_fe], ratio=_r(c.ratio),
+                    message=(f"At x = {c.x:g} {L} the FE shear stress peaks at "
+                             f"{c.tau_max_fe:.4g} {S} (y = {c.y_at_tau_max_fe:.4g} {L}), "
+                             f"{c.ratio:.3g} times the {words}-shear value {formula} = "
+                             f"{force:.6g} {F} / {split} = {c.tau_max_hand:.4g} "
+                             f"{S} with n = {n} shear plane{'s' if n > 1 else ''}: direct "
+                             f"shear spreads the force evenly over the section, the elastic "
+                             f"shear peaks inside it (the shear formula gives "
+                             f"{c.tau_formula_hand:.4g} {S} here)."))]
+
+
+def _why(name: str, dist: float, depth: float, L: str) -> str:
     """Plain-words cause of an excess near a station."""
     where = (f"the cut crosses the extent of {name}" if dist == 0.0
-             else f"the cut is {dist / depth:.2f} depths from {name}")
-    if name.startswith(("hole ", "cut-out ", "zone ")):
+             else f"the cut is {dist:.4g} {L} ({dist / depth:.2f} depths) from {name}")
+    if name.startswith(FEATURE_STATIONS):
         return (f"{where}, which concentrates the shear that the formula spreads as a "
                 "parabola over the section")
     return (f"{where}, where plane sections do not stay plane and the shear formula's "
@@ -194,7 +237,6 @@ def verdict(case: Case, findings: list[Finding], converged: bool, singular: bool
     if singular or not converged:
         return "inconclusive"
     tol = case.check.tolerance
-    deciding = {"short-beam", "shear-excess", "hand-value", "concentration"}
-    if any(f.kind in deciding and f.ratio is not None and f.ratio > 1 + tol for f in findings):
+    if any(f.kind in DECIDING and f.ratio is not None and f.ratio > 1 + tol for f in findings):
         return "unsafe"
     return "holds"

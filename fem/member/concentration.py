@@ -16,6 +16,9 @@ estimated (the run's convergence study) and set beside the hand side:
   tension or bending (the factors of the handbooks are referred to it), tau_nom where it is
   shear-dominated (a far field of pure shear tau has principal stresses +-tau, so
   Kt = peak/tau is the factor of the pure-shear solution). ``Kt = |peak| / nominal``.
+  At a hole the shear is also referred to the shear formula of the net section at the
+  hole's x: ``Kt,tau = |tau_xy| peak / (VQ/(Ib))``, with Kirsch's pure-shear values beside
+  it (peak principal stress 4 tau, edge |tau_xy| at most 2 tau).
 * **Published formulas**, where they apply, beside the FE value (as predicted peak stresses,
   so the comparison does not depend on the nominal chosen):
 
@@ -63,7 +66,7 @@ from typing import Any
 import numpy as np
 from shapely.geometry import Point, box
 
-from classical.bending import principal_stresses, von_mises_plane
+from classical.bending import principal_stresses
 from classical.coefficients import kirsch_hole_edge_extremes, kt_net_howland
 from fem.case.model import BeamGeometry, Case
 from fem.case.outline import (
@@ -76,17 +79,25 @@ from fem.case.outline import (
 from fem.convergence import ConvergenceInputError, growth_exponent, williams_lambda
 from fem.member.hand import CutHand, hand_at_cut, member_model
 from fem.member.level import ExcludedZone, Level
-from fem.member.recovery import PointLocator
+from fem.member.recovery import PointLocator, von_mises
 from fem.results import Finding
 
 __all__ = [
-    "CORNER_SAMPLE_RATIO", "KIRSCH_CLEARANCE", "STRIP_MAX_D_OVER_W", "Feature", "FormulaValue",
+    "CORNER_SAMPLE_RATIO", "KIRSCH_CLEARANCE", "KIRSCH_SHEAR_KT", "KIRSCH_SHEAR_TAU_EDGE",
+    "STRIP_MAX_D_OVER_W", "Feature", "FormulaValue",
     "Concentration", "features", "concentrations", "concentration_findings",
 ]
 
 CORNER_SAMPLE_RATIO = 1.0 / 3.0  # sharp-corner sample distance / element size (see above)
 KIRSCH_CLEARANCE = 10.0          # material all round within this many diameters: "infinite"
 STRIP_MAX_D_OVER_W = 0.5         # Howland's series covers d/W up to 0.5 (from memory)
+#: Kirsch, infinite plate with a circular hole in pure shear tau: hoop stress
+#: -4 tau sin 2 theta, so the peak principal stress is 4 tau, and tau_xy on the edge
+#: 2 tau sin^2 2 theta, at most 2 tau
+KIRSCH_SHEAR_KT = 4.0
+KIRSCH_SHEAR_TAU_EDGE = 2.0
+KIRSCH_SHEAR_SOURCE = ("Kirsch 1898; Pilkey & Pilkey, Peterson's Stress Concentration "
+                       "Factors, 3rd ed., infinite plate in pure shear, from memory")
 _PURE = 0.02                     # bending or shear below 2 % of N/A: "pure" tension
 _REACH = 1.5                     # search radius of a hole or fillet, in radii
 
@@ -148,6 +159,8 @@ class Concentration:
     kt: float | None = None
     formulas: list[FormulaValue] = field(default_factory=list)
     ratio: float | None = None      # tau_peak / tau_nominal
+    tau_formula: float | None = None  # holes: VQ/(Ib) of the net section at the hole's x
+    kt_shear: float | None = None   # holes: tau_peak / tau_formula
     growth: float | None = None     # corners: log-log slope of the sample against h
     williams: float | None = None   # corners: lambda - 1 for the corner's angle
     corner_peaks: list[float] = field(default_factory=list)  # corners: nodal peak per level
@@ -254,7 +267,8 @@ def _peaks(level: Level, near: np.ndarray) -> dict[str, Any]:
     return {"peak": peak, "at": (float(xy[0, i]), float(xy[1, i])), "tension": float(s1[i1]),
             "compression": float(s2[i2]), "tau": float(tau[it]),
             "tau_at": (float(xy[0, it]), float(xy[1, it])),
-            "vm": float(von_mises_plane(n["sxx"][near], n["syy"][near], n["txy"][near]).max())}
+            "vm": float(np.max(von_mises(level.field.material, n["sxx"][near], n["syy"][near],
+                                         n["txy"][near])))}
 
 
 def _corner_sample(level: Level, f: Feature, dom, locator: PointLocator) -> float:
@@ -266,7 +280,7 @@ def _corner_sample(level: Level, f: Feature, dom, locator: PointLocator) -> floa
     if not dom.contains(Point(q)):
         return math.nan
     s = level.field.at(locator, np.array([q[0]]), np.array([q[1]]))
-    return float(von_mises_plane(s["sxx"], s["syy"], s["txy"])[0])
+    return float(np.ravel(von_mises(level.field.material, s["sxx"], s["syy"], s["txy"]))[0])
 
 
 def _hand(case: Case, level: Level, x: float, y: np.ndarray,
@@ -368,6 +382,9 @@ def _nominal(c: Concentration, hd: CutHand, method: str, L: str, scale: float) -
         c.nominal_basis = f"hand shear ({method}) of the net section at x = {x}"
     c.kt = abs(c.peak) / c.nominal if c.nominal > 0 else None
     c.ratio = c.tau_peak / c.tau_nominal if c.tau_nominal > 0 else None
+    if c.feature.kind == "hole" and hd.tau_max_formula > 1e-9 * scale:
+        c.tau_formula = hd.tau_max_formula
+        c.kt_shear = c.tau_peak / c.tau_formula
 
 
 def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
@@ -487,6 +504,14 @@ def concentration_findings(case: Case, items: list[Concentration]) -> list[Findi
                 errs += f" and {100 * v.fe_error_opposite:+.1f} %"
             text += (f". {v.name}, Kt = {v.kt:.3g} on the {v.nominal_basis}, predicts {pred}"
                      f" ({v.source}): FE {errs}")
+        if c.kt_shear is not None and c.tau_formula is not None:
+            text += (f". On the shear nominal VQ/(Ib) = {_fmt(c.tau_formula)} {S} of the net "
+                     f"section at x = {_fmt(f.x_net)} {L}, the FE |τxy| peak gives Kt,τ = "
+                     f"{c.kt_shear:.3g} and the principal-stress peak "
+                     f"{abs(c.peak) / c.tau_formula:.3g}; Kirsch's infinite plate in pure "
+                     f"shear has Kt = {KIRSCH_SHEAR_KT:g} on the applied shear (hoop stress "
+                     f"±{KIRSCH_SHEAR_KT:g}τ), with |τxy| at most {KIRSCH_SHEAR_TAU_EDGE:g}τ "
+                     f"on the edge ({KIRSCH_SHEAR_SOURCE})")
         if f.loaded:
             text += (". The hole carries a pin load: its peak is a bearing and lug stress, "
                      "outside the remote-field factors here, so no Kt is given.")
@@ -510,7 +535,8 @@ def _corner_message(c: Concentration, S: str, L: str) -> str:
             f"elastic stress there varies as r^{c.williams:.3f} (Williams 1952), so its peak "
             f"principal stress ({_fmt(abs(c.peak))} {S} on the finest mesh) depends on the mesh")
     if c.growth is not None:
-        text += (f"; the stress {CORNER_SAMPLE_RATIO:.3g} h from the corner grew with exponent "
+        text += (f"; the stress {CORNER_SAMPLE_RATIO:.3g} h from the corner (h the element "
+                 f"size, {_fmt(c.sizes[0])} to {_fmt(c.sizes[-1])} {L}) grew with exponent "
                  f"{c.growth:.3f} over the levels ({_fmt(c.values[0])} to {_fmt(c.values[-1])}"
                  f" {S})")
     if c.nominal:

@@ -113,7 +113,7 @@ def run_level(case: Case, size: float, xs: list[float] | None = None,
     mm = mesh_member(case, size, background=background)
     sol = solve_member(case, mm)
     t0 = time.perf_counter()
-    field = recover(sol, mm)
+    field = recover(sol, mm, case.material)
     locator = PointLocator(field.p, field.t)
     g = case.geometry
     dom = domain_polygon(g)  # type: ignore[arg-type]

@@ -4,6 +4,9 @@ The gradient of a P2 displacement is linear on each straight triangle, so the st
 evaluated at the three vertices of every element represent the FE stress exactly
 (a P1-discontinuous field). Point values interpolate those linearly; smooth nodal fields
 (for contours, peaks and the VTU file) average the element values at each vertex.
+
+Von Mises stress: the plane-stress form (sz = 0) for ``model = "plane-stress"``, the full
+J2 form with sz = nu (sx + sy) for ``model = "plane-strain"`` (`von_mises`).
 """
 
 from __future__ import annotations
@@ -11,14 +14,29 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.spatial import cKDTree
 from skfem import Basis
 
-from classical.bending import principal_stresses, von_mises_plane
+from classical.bending import principal_stresses, von_mises_plane, von_mises_plane_strain
+from fem.case.model import Material
 from fem.member.mesh import MemberMesh
 from fem.member.solve import Solution
 
-__all__ = ["StressField", "recover", "PointLocator"]
+__all__ = ["StressField", "recover", "PointLocator", "von_mises"]
+
+
+def von_mises(material: Material | None, sx: ArrayLike, sy: ArrayLike,
+              txy: ArrayLike) -> float | np.ndarray:
+    """Von Mises stress of the in-plane components for the material's 2D model.
+
+    Plane strain carries sz = nu (sx + sy), which the plane-stress form leaves out
+    (`classical.bending.von_mises_plane_strain`); plane stress, or no material given,
+    uses `classical.bending.von_mises_plane`.
+    """
+    if material is not None and material.model == "plane-strain":
+        return von_mises_plane_strain(sx, sy, txy, material.nu)
+    return von_mises_plane(sx, sy, txy)
 
 
 @dataclass
@@ -32,6 +50,7 @@ class StressField:
     p: np.ndarray          # vertex coordinates (2, nverts)
     nodal: dict[str, np.ndarray]
     displacement: np.ndarray  # (2, nverts)
+    material: Material | None = None  # its model chooses the von Mises form
 
     def at(self, locator: PointLocator, x: np.ndarray, y: np.ndarray) -> dict[str, np.ndarray]:
         """sxx, syy, txy at points, by linear interpolation in the containing element."""
@@ -42,8 +61,11 @@ class StressField:
         return out
 
 
-def recover(sol: Solution, mm: MemberMesh) -> StressField:
-    """Stresses at the element vertices from the displacement gradient."""
+def recover(sol: Solution, mm: MemberMesh, material: Material | None = None) -> StressField:
+    """Stresses at the element vertices from the displacement gradient.
+
+    ``material`` chooses the von Mises form (`von_mises`); without it, plane stress.
+    """
     mesh = mm.mesh
     vert = np.array([[0.0, 1.0, 0.0], [0.0, 0.0, 1.0]])
     vb = Basis(mesh, sol.basis.elem, quadrature=(vert, np.full(3, 1.0 / 6.0)))
@@ -62,11 +84,11 @@ def recover(sol: Solution, mm: MemberMesh) -> StressField:
         return np.bincount(t.T.ravel(), weights=field.ravel(), minlength=nv) / count
 
     nodal = {"sxx": avg(sxx), "syy": avg(syy), "txy": avg(txy)}
-    nodal["von_mises"] = von_mises_plane(nodal["sxx"], nodal["syy"], nodal["txy"])
+    nodal["von_mises"] = von_mises(material, nodal["sxx"], nodal["syy"], nodal["txy"])
     nodal["principal_max"] = principal_stresses(nodal["sxx"], nodal["syy"], nodal["txy"]).s1
     disp = sol.u[sol.basis.nodal_dofs[:, :nv]]
     return StressField(sxx=sxx, syy=syy, txy=txy, t=t, p=mm.finder_mesh.p, nodal=nodal,
-                       displacement=disp)
+                       displacement=disp, material=material)
 
 
 class PointLocator:

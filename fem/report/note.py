@@ -18,6 +18,7 @@ import re
 from pathlib import Path
 from typing import Any
 
+from classical.bending import shear_yield
 from fem.report.blocks import Block, Note, Section, Table, sci
 from fem.report.convergence_figure import quantity_label
 from fem.report.html import render_html
@@ -161,16 +162,30 @@ def _fe(res: Any) -> Section:
                  f"{t.mesh:.2f} / {t.assemble:.2f} / {t.solve:.2f} / {t.post:.2f} s"])
     s.items.append(Table(["item", "value"], rows))
     if r.peak is not None:
-        p, ys = r.peak, res.case.material.yield_stress
-        head = ["quantity", f"FE peak [{S}]", f"at (x, y) [{L}]"] + (["of yield"] if ys else [])
-        body = []
-        for name, v, at in (("|τxy|", p.tau_max, p.tau_at),
-                            ("von Mises", p.von_mises_max, p.von_mises_at),
-                            ("max principal σ1", p.principal_max, p.principal_at)):
-            body.append([name, sci(v), f"({sci(at[0])}, {sci(at[1])})"]
-                        + ([f"{v / ys:.0%}"] if ys else []))
-        s.items.append(Table(head, body, "Peaks outside the excluded zones (finest mesh)"))
+        s.items.append(_peaks_table(r.peak, res.case.material.yield_stress, L, S))
     return s
+
+
+def _peaks_table(p: Any, fy: float | None, L: str, S: str) -> Table:
+    """The FE peaks; with a yield stress fy, the shear peak against the von Mises shear
+    yield fy/√3 (`classical.bending.shear_yield`) and the von Mises peak against fy."""
+    head = ["quantity", f"FE peak [{S}]", f"at (x, y) [{L}]"]
+    rows = [["|τxy|", p.tau_max, p.tau_at], ["von Mises σvm", p.von_mises_max, p.von_mises_at],
+            ["max principal σ1", p.principal_max, p.principal_at]]
+    if fy:
+        tau_y = shear_yield(fy)
+        head.append("utilisation")
+        rows[0].append(f"τ/(fy/√3) = {p.tau_max / tau_y:.0%}")
+        rows[1].append(f"σvm/fy = {p.von_mises_max / fy:.0%}")
+        rows[2].append("–")
+    body = [[name, sci(v), f"({sci(at[0])}, {sci(at[1])})", *rest]
+            for name, v, at, *rest in rows]
+    caption = "Peaks outside the excluded zones (finest mesh)"
+    if fy:
+        caption += (f"; utilisation of the shear peak against the von Mises shear yield "
+                    f"fy/√3 = {sci(shear_yield(fy))} {S}, of the von Mises peak against the "
+                    f"yield stress fy = {fy:g} {S}")
+    return Table(head, body, caption)
 
 
 def _comparison(res: Any) -> Section:
