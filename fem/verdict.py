@@ -15,9 +15,9 @@ __all__ = ["DECIDING_KINDS", "Verdict", "decide", "is_excess"]
 
 DECIDING_KINDS = frozenset({
     # members: at a cut or along the member
-    "short-beam", "shear-excess", "concentration", "envelope-excess", "direct-shear",
+    "short-beam", "shear-excess", "concentration", "envelope-excess", "method-excess",
     # sections: over the section
-    "method-excess", "junction-peak", "edge-excess",
+    "junction-peak", "edge-excess",
     # both: the user's own hand value
     "hand-value",
 })

@@ -1,4 +1,4 @@
-"""Findings and the verdict rules."""
+"""Findings at cuts and stations (the verdict rule itself: tests/test_verdict.py)."""
 
 from __future__ import annotations
 
@@ -7,24 +7,12 @@ from conftest import CANTILEVER
 
 from fem.api import check
 from fem.case import parse_case
-from fem.member.compare import verdict
-from fem.results import Finding
+from fem.verdict import decide
 
 
 def _case(levels: int = 1):
     return parse_case(CANTILEVER.format(length=60.0, size=10.0, levels=levels,
                                         cuts="[10.0, 30.0]"), "stub.toml")
-
-
-def test_verdict_rules():
-    """unsafe on a deciding excess; inconclusive when not converged or singular governs."""
-    case = _case()
-    excess = [Finding("short-beam", [0, 0], 1.2, "")]
-    info = [Finding("bearing", [0, 0], 3.0, ""), Finding("excluded", [0, 0], None, "")]
-    assert verdict(case, excess, converged=True, singular=False) == "unsafe"
-    assert verdict(case, info, converged=True, singular=False) == "holds"
-    assert verdict(case, info, converged=False, singular=False) == "inconclusive"
-    assert verdict(case, excess, converged=True, singular=True) == "inconclusive"
 
 
 BRACKET = """
@@ -92,8 +80,7 @@ def test_direct_shear_excess_names_the_method_and_n(method, n, words):
     other = "double-shear" if n == 1 else "single-shear"
     assert other not in f.message
     assert f"{10.0 / n:.4g} MPa" in f.message and "15 MPa" in f.message
-    assert verdict(parse_case(CANTILEVER.format(length=60.0, size=10.0, levels=1, cuts="[10.0]"),
-                              "x.toml"), [f], converged=True, singular=False) == "unsafe"
+    assert decide([f], tolerance=0.05, levels=3, converged=True).word == "unsafe"
 
 
 def test_shear_formula_has_no_method_excess_finding():

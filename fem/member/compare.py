@@ -24,16 +24,13 @@ from fem.member.level import ExcludedZone, Level, nearest_station
 from fem.member.recovery import von_mises
 from fem.results import CutResult, Finding, Peak, Profile
 
-__all__ = ["cut_results", "peak_result", "beam_findings", "verdict", "stations",
-           "DIRECT_PLANES", "FEATURE_STATIONS", "DECIDING"]
+__all__ = ["cut_results", "peak_result", "beam_findings", "stations",
+           "DIRECT_PLANES", "FEATURE_STATIONS"]
 
 #: shear planes n of the direct-shear methods, tau = F/(n A)
 DIRECT_PLANES = {"single-shear": 1, "double-shear": 2}
 #: station names of geometric features whose excess is a concentration, not a short beam
 FEATURE_STATIONS = ("hole ", "cut-out ")
-#: finding kinds whose ratio above 1 + tolerance makes the verdict unsafe
-DECIDING = frozenset({"short-beam", "shear-excess", "hand-value", "concentration",
-                      "method-excess"})
 
 
 def _r(v: float, n: int = 6) -> float:
@@ -231,12 +228,3 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
                                         f"{governing:.4g} {S}; a shear-only check does not "
                                         "cover it.")))
     return out
-
-
-def verdict(case: Case, findings: list[Finding], converged: bool, singular: bool) -> str:
-    if singular or not converged:
-        return "inconclusive"
-    tol = case.check.tolerance
-    if any(f.kind in DECIDING and f.ratio is not None and f.ratio > 1 + tol for f in findings):
-        return "unsafe"
-    return "holds"

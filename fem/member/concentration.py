@@ -52,7 +52,7 @@ estimated (the run's convergence study) and set beside the hand side:
 Findings (kind ``concentration``) name the feature, give Kt with its nominal, the formula
 values and the GCI of the peak; ``ratio`` is the FE peak |tau_xy| near a hole or fillet over
 the hand shear of the chosen method at the net section, so a concentration that makes the
-hand shear check unsafe decides the verdict (`fem.member.compare.verdict`). Sharp corners give a
+hand shear check unsafe decides the verdict (`fem.verdict.decide`). Sharp corners give a
 finding without a ratio (the `singular` finding of `fem.member.check` speaks for their growth).
 """
 
