@@ -14,8 +14,11 @@ largest magnitude lies where the line crosses an element edge: the FE peak of a 
 the largest |tau_xy| over those crossings (`section_peaks`), exact for the recovered field
 and never below a cut's sampled `tau_max` at the same x. No point location is needed.
 
-ratio(x) = tau_fe(x) / tau_hand(x); `unsafe` lists the stretches where it exceeds
-1 + tolerance, `excluded` the x-extents of the excluded zones.
+ratio(x) = tau_fe(x) / tau_hand(x). `excluded` lists the x-extents of the excluded zones:
+their stations keep their values (the figure greys them), but next to a support corner or a
+patch end the remaining points of the section still carry the idealisation (the clamp
+crowding shear towards its corners, a bearing patch spreading its load), so the worst
+station and the `unsafe` stretches (ratio > 1 + tolerance) are taken outside them.
 """
 
 from __future__ import annotations
@@ -139,6 +142,14 @@ def _stretches(x: np.ndarray, flag: np.ndarray) -> list[list[float]]:
     return out
 
 
+def _inside(x: np.ndarray, stretches: list[list[float]]) -> np.ndarray:
+    """Stations inside (or on the ends of) any of the stretches."""
+    m = np.zeros(len(x), bool)
+    for a, b in stretches:
+        m |= (x >= a) & (x <= b)
+    return m
+
+
 def _zone_stretches(zones: list[ExcludedZone], x0: float, x1: float) -> list[list[float]]:
     """The x-extents of the zones inside the member, overlapping ones merged."""
     spans = sorted((max(x0, z.at[0] - z.radius), min(x1, z.at[0] + z.radius)) for z in zones)
@@ -199,9 +210,11 @@ def member_envelope(case: Case, level: Level, zones: list[ExcludedZone] | None =
     has_fe = np.isfinite(peak)
     has_ratio = has_fe & (hand_a > floor) & (hand_a > 0)
     ratio = np.where(has_ratio, peak / np.where(has_ratio, hand_a, 1.0), np.nan)
+    excluded = _zone_stretches(zones, x0, x1)
+    judged = has_ratio & ~_inside(x, excluded)
     worst = None
-    if has_ratio.any():
-        k = int(np.nanargmax(ratio))
+    if judged.any():
+        k = int(np.nanargmax(np.where(judged, ratio, np.nan)))
         worst = EnvelopePoint(x=_r(x[k]), ratio=_r(ratio[k]), tau_fe=_r(peak[k]),
                               tau_hand=_r(hand_a[k]), y=_r(at[k]))
     return Envelope(
@@ -210,6 +223,6 @@ def member_envelope(case: Case, level: Level, zones: list[ExcludedZone] | None =
         tau_hand=[_r(v) for v in hand_a],
         ratio=[_r(v) if ok else None for v, ok in zip(ratio, has_ratio, strict=True)],
         worst=worst,
-        excluded=_zone_stretches(zones, x0, x1),
-        unsafe=_stretches(x, has_ratio & (np.nan_to_num(ratio) > 1 + tol)),
+        excluded=excluded,
+        unsafe=_stretches(x, judged & (np.nan_to_num(ratio) > 1 + tol)),
         tolerance=tol)
