@@ -20,7 +20,8 @@ import numpy as np
 
 __all__ = [
     "MeshInfo", "Equilibrium", "Profile", "CutResult", "Peak", "ConvergenceResult",
-    "Finding", "Timings", "Result", "write_json", "to_jsonable", "CAUTION", "atomic_write",
+    "Finding", "Timings", "EnvelopePoint", "Envelope", "Result", "write_json", "to_jsonable",
+    "CAUTION", "atomic_write",
 ]
 
 CAUTION = ("This is a verification aid. Design remains subject to the governing code and the "
@@ -121,6 +122,36 @@ class Timings:
 
 
 @dataclass
+class EnvelopePoint:
+    """One station of the envelope: where FE and hand were compared and what they gave."""
+
+    x: float
+    ratio: float
+    tau_fe: float
+    tau_hand: float
+    y: float = 0.0   # height of the FE peak |tau_xy| in that section
+
+
+@dataclass
+class Envelope:
+    """FE peak |tau_xy| against the hand value at stations all along the member.
+
+    Lists run over the stations `x`; `None` where a section lies wholly in an excluded zone
+    (`tau_fe`, `ratio`) or the hand shear vanishes (`ratio`). `excluded` and `unsafe` are
+    [x0, x1] stretches: excluded idealisation zones, and ratio > 1 + tolerance.
+    """
+
+    x: list[float]
+    tau_fe: list[float | None]
+    tau_hand: list[float | None]
+    ratio: list[float | None]
+    worst: EnvelopePoint | None
+    excluded: list[list[float]] = field(default_factory=list)
+    unsafe: list[list[float]] = field(default_factory=list)
+    tolerance: float = 0.05
+
+
+@dataclass
 class Result:
     case: str
     kind: str
@@ -140,6 +171,7 @@ class Result:
     hand_calculation: list[str] = field(default_factory=list)
     caution: str = CAUTION
     schema: int = 1
+    envelope: Envelope | None = None
 
     def to_dict(self) -> dict[str, Any]:
         d = to_jsonable(self)
@@ -149,6 +181,8 @@ class Result:
             d.pop("equilibrium", None)
         else:
             d.pop("section", None)
+        if self.kind == "section" or self.envelope is None:
+            d.pop("envelope", None)  # no key rather than null: outputs stay as they were
         return d
 
 

@@ -13,7 +13,8 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
     if res.case.kind == "beam":
         from fem.report.member_figures import write_beam_figures
 
-        paths = write_beam_figures(res.case, res.run.finest, res.result.cuts, folder)
+        paths = write_beam_figures(res.case, res.run.finest, res.result.cuts, folder,
+                                   envelope=getattr(res.result, "envelope", None))
     else:
         from fem.report.section_figures import write_section_figures
 

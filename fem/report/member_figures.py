@@ -17,6 +17,7 @@ from pathlib import Path
 import matplotlib
 
 matplotlib.use("Agg")
+import matplotlib.patches  # noqa: E402
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 import shapely  # noqa: E402
@@ -26,12 +27,17 @@ from matplotlib.tri import Triangulation  # noqa: E402
 from shapely.geometry import LineString  # noqa: E402
 
 from fem.case.model import Case  # noqa: E402
-from fem.case.outline import cut_strips, domain_polygon, reentrant_corners  # noqa: E402
+from fem.case.outline import (  # noqa: E402
+    cut_strips,
+    domain_polygon,
+    patches,
+    reentrant_corners,
+)
 from fem.member.level import Level, excluded_zones  # noqa: E402
-from fem.results import CutResult  # noqa: E402
+from fem.results import CutResult, Envelope  # noqa: E402
 
-__all__ = ["contour_figure", "profile_figure", "write_beam_figures", "number", "DIVERGING",
-           "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
+__all__ = ["contour_figure", "profile_figure", "ratio_along_member_figure",
+           "write_beam_figures", "number", "DIVERGING", "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
 
 DIVERGING = "coolwarm"
 SEQUENTIAL = "cividis"
@@ -40,6 +46,8 @@ SUPPORT_COLOUR = "#1b7837"
 LOAD_COLOUR = "#762a83"
 FE_COLOUR = "#b2182b"
 HAND_COLOUR = "#2166ac"
+UNSAFE_COLOUR = "#f4a582"    # light red of the same diverging family as FE_COLOUR
+EXCLUDED_COLOUR = "#d9d9d9"
 QUANTITIES = {"txy": "shear stress τxy", "von_mises": "von Mises stress"}
 
 
@@ -278,11 +286,120 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
     return path
 
 
-def write_beam_figures(case: Case, level: Level, cuts: list[CutResult],
-                       folder: Path) -> list[Path]:
+def _features(case: Case) -> list[tuple[str, float, float, str]]:
+    """(name, x_left, x_right, colour) of the supports, loads and holes along the member."""
+    sup, lds = patches(case)
+    g = case.geometry
+    out = []
+    for plist, colour in ((sup, SUPPORT_COLOUR), (lds, LOAD_COLOUR)):
+        for p in plist:
+            if p.hole is not None:
+                h = g.holes[p.hole]
+                out.append((p.name, h.center[0] - h.radius, h.center[0] + h.radius, colour))
+            else:
+                xs = [q[0] for q in p.ends]
+                out.append((p.name, min(xs), max(xs), colour))
+    for k, h in enumerate(g.holes):
+        out.append((f"hole {k}", h.center[0] - h.radius, h.center[0] + h.radius, INK))
+    return out
+
+
+def _bands(ax, stretches: list[list[float]], colour: str, pad: float, **kw) -> None:
+    for a, b in stretches:  # a one-station stretch still shows, a little wide
+        ax.axvspan(a - pad if a == b else a, b + pad if a == b else b, color=colour, lw=0, **kw)
+
+
+def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Path:
+    """FE peak |tau_xy| over the hand value at every station along the member.
+
+    Top: both stresses against x. Middle: their ratio with the 1 + tolerance line, unsafe
+    stretches shaded, excluded stretches greyed. Bottom: the member's supports, loads and
+    holes by name along the same x.
+    """
+    S, L = case.units.stress, case.units.length
+    x = np.asarray(envelope.x, float)
+    nan = float("nan")
+    fe = np.array([nan if v is None else v for v in envelope.tau_fe], float)
+    hand = np.array([nan if v is None else v for v in envelope.tau_hand], float)
+    ratio = np.array([nan if v is None else v for v in envelope.ratio], float)
+    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    x0, _, x1, _ = dom.bounds
+    pad = 0.004 * (x1 - x0)
+    limit = 1.0 + envelope.tolerance
+    fig, (a_tau, a_r, a_m) = plt.subplots(3, 1, figsize=(8.0, 6.2), sharex=True,
+                                          gridspec_kw={"height_ratios": [2.0, 2.6, 0.7]})
+    for ax in (a_tau, a_r):
+        _bands(ax, envelope.excluded, EXCLUDED_COLOUR, pad, alpha=0.7, zorder=0)
+        _bands(ax, envelope.unsafe, UNSAFE_COLOUR, pad, alpha=0.6, zorder=0)
+        ax.grid(alpha=0.25)
+        for side in ("top", "right"):
+            ax.spines[side].set_visible(False)
+    a_tau.plot(x, fe, color=FE_COLOUR, lw=1.6, label="FE: peak |τxy| in the section")
+    a_tau.plot(x, hand, color=HAND_COLOUR, lw=1.3, ls="--",
+               label=f"hand: {case.check.method}")
+    a_tau.set_ylabel(f"shear stress [{S}]")
+    a_tau.set_ylim(bottom=0.0)
+    a_tau.legend(fontsize=7.5, frameon=False, loc="best")
+    a_r.plot(x, ratio, color=INK, lw=1.5, label="FE / hand")
+    a_r.axhline(1.0, color="#999999", lw=0.8)
+    a_r.axhline(limit, color=FE_COLOUR, lw=1.0, ls=(0, (5, 3)),
+                label=f"1 + tolerance = {limit:g}")
+    judged = np.isfinite(ratio)
+    for a, b in envelope.excluded:
+        judged &= (x < a) | (x > b)
+    if judged.any():  # the scale follows the judged values, not a spike in an excluded zone
+        top = max(limit, float(ratio[judged].max()))
+        bottom = min(1.0 - envelope.tolerance, float(ratio[judged].min()))
+        a_r.set_ylim(bottom - 0.05 * (top - bottom), top + 0.12 * (top - bottom))
+    if envelope.worst is not None:
+        w = envelope.worst
+        a_r.plot(w.x, w.ratio, "o", mfc="none", mec=FE_COLOUR, mew=1.5, ms=7, zorder=5)
+        right = w.x > x0 + 0.6 * (x1 - x0)
+        a_r.annotate(f"worst {w.ratio:.3f} at x = {number(w.x)} {L}", (w.x, w.ratio),
+                     xytext=(-8 if right else 8, 6), textcoords="offset points",
+                     ha="right" if right else "left", va="bottom", fontsize=8, color=INK)
+    a_r.set_ylabel("ratio FE / hand")
+    handles = [*a_r.get_legend_handles_labels()[0],
+               matplotlib.patches.Patch(color=UNSAFE_COLOUR, alpha=0.6, label="unsafe"),
+               matplotlib.patches.Patch(color=EXCLUDED_COLOUR, alpha=0.7,
+                                        label="excluded zone (not judged)")]
+    a_r.legend(handles=handles, fontsize=7.5, frameon=False, loc="best", ncol=2)
+    # the member along x: a bar with the supports, loads and holes marked by name
+    a_m.axhspan(0.35, 0.65, xmin=0.0, xmax=1.0, color="#f0f0f0", zorder=0)
+    a_m.plot([x0, x1], [0.35, 0.35], color=INK, lw=0.8)
+    a_m.plot([x0, x1], [0.65, 0.65], color=INK, lw=0.8)
+    for name, lo, hi, colour in _features(case):
+        level = 0.5 if colour == INK else (0.15 if colour == SUPPORT_COLOUR else 0.85)
+        if hi - lo > pad:
+            a_m.plot([lo, hi], [level, level], color=colour, lw=4, solid_capstyle="butt")
+        else:
+            a_m.plot(lo, level, marker="^" if colour == SUPPORT_COLOUR else "v", color=colour,
+                     ms=7, ls="none")
+        a_m.text(0.5 * (lo + hi), level + (0.2 if level > 0.5 else -0.2), name, fontsize=7,
+                 color=colour, ha="center", va="bottom" if level > 0.5 else "top",
+                 clip_on=False)
+    a_m.set_ylim(-0.25, 1.25)
+    a_m.set_yticks([])
+    for side in ("top", "right", "left"):
+        a_m.spines[side].set_visible(False)
+    a_m.set_xlabel(f"x [{L}]")
+    a_m.set_xlim(x0 - 0.02 * (x1 - x0), x1 + 0.02 * (x1 - x0))
+    fig.suptitle(f"FE against hand along the member ({len(x)} sections)", x=0.01, ha="left",
+                 fontsize=11, fontweight="bold")
+    fig.tight_layout()
+    fig.savefig(path, dpi=150)
+    plt.close(fig)
+    return Path(path)
+
+
+def write_beam_figures(case: Case, level: Level, cuts: list[CutResult], folder: Path,
+                       envelope: Envelope | None = None) -> list[Path]:
+    """The contours, one profile per cut and, given an envelope, the ratio along the member."""
     folder = Path(folder)
     out = [contour_figure(case, level, cuts, "txy", folder / "shear-contour.png"),
            contour_figure(case, level, cuts, "von_mises", folder / "von-mises-contour.png")]
     for i, c in enumerate(cuts):
         out.append(profile_figure(case, c, folder / f"profile-{i + 1:02d}.png"))
+    if envelope is not None:
+        out.append(ratio_along_member_figure(case, envelope, folder / "ratio-along-member.png"))
     return out

@@ -337,6 +337,10 @@ def _assumptions(res: Any) -> Section:
 _CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), with the cuts, "
                               "supports, loads and the excluded zones.",
              "von-mises-contour": "Von Mises stress over the member (finest mesh).",
+             "ratio-along-member": "FE peak |τxy| of every vertical section against the hand "
+                                   "value at the same x (finest mesh), their ratio with the "
+                                   "1 + tolerance line, unsafe stretches shaded and excluded "
+                                   "zones greyed (not judged).",
              "section-shear": "Shear stress magnitude |τ| over the section under the case's "
                               "shear, with the shear flow (arrows) and the FE peak.",
              "neutral-axis-profile": "FE and hand shear stress along the neutral axis.",
