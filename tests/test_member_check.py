@@ -133,3 +133,24 @@ def test_a_coarse_three_level_study_is_inconclusive_with_the_reason(tmp_path):
         pytest.fail(f"a 100/50/25 mm study accepted as converged: {res.convergence}")
     assert res.verdict == "inconclusive"
     assert nc and "has not converged:" in nc[0].message and "GCI n/a" not in nc[0].message
+
+
+def test_an_excess_between_the_cuts_is_found_by_the_envelope():
+    """The 200 x 100 x 10 mm plate cantilever with 20 kN spread uniformly on its free edge:
+    the end load is not the parabola of Timoshenko & Goodier (3rd ed., §21), so near the
+    loaded end the FE shear at mid-depth exceeds 1.5 V/A = 30 MPa by about 6 % (Saint-Venant
+    end zone), between the automatic cuts. The verdict is decided on the envelope: unsafe,
+    worst point within one element of x = 172.7 mm (measured on a 5 mm mesh)."""
+    from fem.api import check
+    from fem.case import parse_case
+
+    text = _plate_cantilever("mm", "N", 1.0, 1.0, size_mm=20.0, levels=3).replace(
+        'distribution = "parabolic"', 'distribution = "uniform"')
+    res = check(parse_case(text, "plate.toml")).result
+    w = res.envelope.worst
+    assert res.verdict == "unsafe"
+    assert w.tau_hand == pytest.approx(30.0, rel=1e-6)          # 1.5 x 20000 / (100 x 10)
+    assert 1.04 < w.ratio < 1.08 and abs(w.x - 172.7) <= 5.0    # finest element: 5 mm
+    assert all(c.ratio is None or c.ratio <= 1.05 for c in res.cuts)   # the cuts miss it
+    (f,) = [f for f in res.findings if f.kind == "envelope-excess"]
+    assert "Between the cuts" in f.message and "MPa" in f.message

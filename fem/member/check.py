@@ -23,11 +23,13 @@ from fem.errors import SolveError
 from fem.member.adapt import next_size_field, representative_size
 from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
+from fem.member.envelope import member_envelope
 from fem.member.level import Level, excluded_zones, run_level
 from fem.progress import Progress, as_progress
 from fem.results import (
     ConvergenceResult,
     CutResult,
+    Envelope,
     Equilibrium,
     Finding,
     MeshInfo,
@@ -79,6 +81,8 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     cuts, peak = cut_results(fin), peak_result(fin)
     zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
     findings = beam_findings(case, fin, cuts, peak, zones)
+    envelope = member_envelope(case, fin, zones)
+    findings += _envelope_findings(case, envelope, cuts)
     study = _study_of(case)
     conc = concentrations(case, levels, zones, study)
     findings += concentration_findings(case, conc)
@@ -101,6 +105,7 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
                                                   and c.ratio > 1 + tol for c in conc))
     result = _result(case, levels, cuts, peak, findings, verdict.word, quantities, gov_name,
                      gov_cut, bool(singular), converged)
+    result.envelope = envelope
     return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
 
 
@@ -130,6 +135,24 @@ def _run_levels(case: Case, progress: Progress | Callable[[str], None] | None) -
     finally:
         prog.close()
     return levels
+
+
+def _envelope_findings(case: Case, env: Envelope, cuts: list[CutResult]) -> list[Finding]:
+    """An `envelope-excess` finding where the worst point along the member (between or at
+    the cuts, outside the excluded zones) exceeds the hand value by more than the tolerance
+    and no cut within an element of it already says so."""
+    w, tol = env.worst, case.check.tolerance
+    if w is None or w.ratio is None or w.ratio <= 1 + tol:
+        return []
+    if any(c.ratio is not None and c.ratio >= w.ratio * (1 - 1e-3) for c in cuts):
+        return []   # a cut is (near) the worst point: its own finding names the cause
+    L, S = case.units.length, case.units.stress
+    stretches = ", ".join(f"{a:g} to {b:g}" for a, b in env.unsafe)
+    return [Finding(kind="envelope-excess", at=[w.x, w.y], ratio=w.ratio, message=(
+        f"Between the cuts, at x = {w.x:g} {L} the FE shear stress peaks at {w.tau_fe:.4g} "
+        f"{S} (y = {w.y:.4g} {L}), {100 * (w.ratio - 1):.1f} % above the "
+        f"{case.check.method} value {w.tau_hand:.4g} {S} there; the hand value is exceeded "
+        f"over x = {stretches} {L} (see ratio-along-member.png)."))]
 
 
 def _study_of(case: Case) -> Callable[[list[float], list[float]], dict[str, Any]]:
