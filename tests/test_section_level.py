@@ -143,7 +143,7 @@ def test_to_dict_has_contract_keys_and_serialises(tmp_path):
     res = r.results()
     assert set(res) >= {"section", "mesh", "verdict", "findings", "timings"}
     assert set(res["timings"]) >= {"mesh", "assemble", "solve", "post"}
-    assert set(res["mesh"]) == {"nodes", "elements", "dofs", "size", "order"}
+    assert set(res["mesh"]) >= {"nodes", "elements", "dofs", "size", "order"}
     text = json.dumps(res)
     assert json.loads(text)["section"]["J"] == pytest.approx(r.J)
     assert r.shear_centre[0] < 0 < r.centroid[0]   # channel: shear centre behind the web

@@ -55,8 +55,7 @@ def check_section_case(case: Case,
     sizes = [level_size(case, k) for k in range(len(levels))]
     values = [lv.tau_max_fe for lv in levels]
     regular = [lv.tau_max_regular for lv in levels]
-    findings = [Finding(kind=f.kind, at=list(f.at), ratio=f.ratio, message=f.message)
-                for f in fin.findings]
+    findings = list(fin.findings)
     order = extrapolated = gci = None
     singular = converged = False
     if len(levels) >= 2:
@@ -103,5 +102,5 @@ def check_section_case(case: Case,
                                       quantities={"section tau_max outside corners": {
                                           "values": regular}}),
         equilibrium=Equilibrium(**d["equilibrium"]), section=d["section"],
-        hand_method=case.check.method, tolerance=case.check.tolerance)
+        hand_method=fin.method, tolerance=case.check.tolerance)
     return SectionRun(result=result, levels=levels)
