@@ -17,6 +17,14 @@ the cut; with Qx = int (y - cy) t ds and Qy = int (x - cx) t ds over the part on
 positive from ``start`` toward ``end``.  For Ixy = 0 and Vx = 0 this is q = Vy Qx / Ixx
 (the shear formula).  q is zero at free ends and quadratic along a straight segment,
 so resultants and moments of q are integrated exactly in closed form.
+
+Closed single cells (tube, box: :func:`closed_cell_shear_flow`) add the closed-cell
+correction: the cell is cut open at one point, the open-section flow q_open follows as
+above, and a constant q0 = -(oint q_open/t ds)/(oint ds/t) restores zero twist (the
+shear passes through the shear centre); q = q_open + q0 (Megson, 4th ed., Ch. 17, shear
+of closed-section beams; chapter from memory).  :func:`wall_stress_peak` and
+:func:`closed_cell_stress_peak` give the largest wall stress |q|/t, the thin-walled hand
+value of a section's peak shear stress.
 """
 
 from __future__ import annotations
@@ -33,7 +41,11 @@ __all__ = [
     "ShearCentre",
     "ShearFlowResultant",
     "WallSegment",
+    "WallStressPeak",
     "angle_centreline",
+    "box_centreline",
+    "closed_cell_shear_flow",
+    "closed_cell_stress_peak",
     "angle_shear_centre",
     "channel_centreline",
     "channel_shear_centre",
@@ -45,6 +57,9 @@ __all__ = [
     "tee_centreline",
     "tee_shear_centre",
     "thinwall_properties",
+    "tube_centreline",
+    "tube_thinwall_peak",
+    "wall_stress_peak",
 ]
 
 
@@ -296,3 +311,149 @@ def angle_shear_centre(thickness: float) -> ShearCentre:
     """Shear centre of an angle at the junction of the leg centre lines: in the
     :func:`classical.shapes.angle` frame (t/2, t/2).  Common practice (thin wall)."""
     return ShearCentre(thickness / 2, thickness / 2)
+
+
+@dataclass(frozen=True)
+class WallStressPeak:
+    """Largest wall shear stress |q|/t [F/L^2] of a thin-walled section: on segment
+    ``segment`` at distance ``s`` [L] from its start, point ``at`` [L]."""
+
+    tau: float
+    segment: int
+    s: float
+    at: tuple[float, float]
+
+
+def _quadratic_candidates(length: float, d: tuple[float, float], r0: np.ndarray,
+                          a: float, b: float) -> np.ndarray:
+    """Ends of a segment and the stationary point of q (dq/ds = -t (a y + b x) = 0 at
+    s* = -(a r0y + b r0x)/(a dy + b dx)) where it lies inside."""
+    s = [0.0, length]
+    den = a * d[1] + b * d[0]
+    if den != 0.0:
+        st = -(a * r0[1] + b * r0[0]) / den
+        if 0.0 < st < length:
+            s.append(st)
+    return np.array(s)
+
+
+def wall_stress_peak(segments: Sequence[WallSegment], Vy: float,
+                     Vx: float = 0.0) -> WallStressPeak:
+    """Peak wall shear stress max |q|/t of an open thin-walled section (q from
+    :func:`shear_flow`; exact: q is quadratic along each segment, so the maximum is at an
+    end or at the stationary point of q).  Source: Megson, Ch. 16 (as the module).
+    Valid for t << wall lengths; shear through the shear centre."""
+    segs = _check(segments)
+    p = thinwall_properties(segs)
+    c = np.array([p.cx, p.cy])
+    a, b = _coefficients(p, Vy, Vx)
+    best = WallStressPeak(0.0, 0, 0.0, segs[0].start)
+    for k, seg in enumerate(segs):
+        ss = _quadratic_candidates(seg.length, seg.direction, np.array(seg.start) - c, a, b)
+        tau = np.abs(shear_flow(segs, k, ss, Vy, Vx)) / seg.t
+        j = int(np.argmax(tau))
+        if tau[j] > best.tau:
+            d = seg.direction
+            at = (float(seg.start[0] + ss[j] * d[0]), float(seg.start[1] + ss[j] * d[1]))
+            best = WallStressPeak(float(tau[j]), k, float(ss[j]), at)
+    return best
+
+
+def _closed_loop(points: Sequence[Sequence[float]], t: float) -> tuple[WallSegment, ...]:
+    pts = [tuple(map(float, q)) for q in points]
+    if len(pts) < 3 or not t > 0:
+        raise ValueError("a closed cell needs at least 3 centre-line points and t > 0")
+    return tuple(WallSegment(pts[k], pts[(k + 1) % len(pts)], t) for k in range(len(pts)))
+
+
+def closed_cell_shear_flow(points: Sequence[Sequence[float]], t: float, Vy: float,
+                           Vx: float = 0.0, samples: int = 5
+                           ) -> tuple[tuple[WallSegment, ...], np.ndarray, np.ndarray]:
+    """Shear flow q [F/L] around one closed cell of constant wall thickness t [L].
+
+    ``points`` are the centre-line vertices in order (the cell's polygon, either sense).
+    The cell is cut at ``points[0]``; along segment k (start P_k, unit direction d,
+    r0 = P_k - centroid) q_open(s) = q_k - t (a (r0y s + dy s^2/2) + b (r0x s + dx s^2/2))
+    with a, b the bending-rate coefficients of the module formula, then
+    q = q_open + q0, q0 = -(oint q_open ds)/(oint ds) (t constant; Simpson's rule per
+    segment, exact for the quadratic q).  Positive along the segments' direction.
+    Source: Megson, 4th ed., Ch. 17 (chapter from memory).  Valid for t << cell size;
+    shear through the shear centre (no twist).
+
+    Returns
+    -------
+    (segments, s, q)
+        The loop's segments; ``s`` (n_seg, samples) distances from each start; ``q`` the
+        flow there.
+    """
+    segs = _closed_loop(points, t)
+    p = thinwall_properties(segs)
+    c = np.array([p.cx, p.cy])
+    a, b = _coefficients(p, Vy, Vx)
+    s = np.array([np.linspace(0.0, seg.length, samples) for seg in segs])
+    q = np.zeros_like(s)
+    q_start, total, perimeter = 0.0, 0.0, 0.0
+    for k, seg in enumerate(segs):
+        d, r0 = seg.direction, np.array(seg.start) - c
+        L = seg.length
+
+        def q_open(x: np.ndarray, q0: float = q_start, d=d, r0=r0) -> np.ndarray:
+            return q0 - t * (a * (r0[1] * x + d[1] * x**2 / 2) + b * (r0[0] * x + d[0] * x**2 / 2))
+
+        q[k] = q_open(s[k])
+        total += L / 6 * float(q_open(np.array(0.0)) + 4 * q_open(np.array(L / 2))
+                               + q_open(np.array(L)))
+        perimeter += L
+        q_start = float(q_open(np.array(L)))
+    return segs, s, q - total / perimeter
+
+
+def closed_cell_stress_peak(points: Sequence[Sequence[float]], t: float, Vy: float,
+                            Vx: float = 0.0) -> WallStressPeak:
+    """Peak wall shear stress max |q|/t of a closed single cell (:func:`closed_cell_shear_flow`;
+    the maximum of each quadratic piece is at an end or its stationary point, as in
+    :func:`wall_stress_peak`).  Source: Megson, 4th ed., Ch. 17 (from memory)."""
+    segs = _closed_loop(points, t)
+    p = thinwall_properties(segs)
+    c = np.array([p.cx, p.cy])
+    a, b = _coefficients(p, Vy, Vx)
+    _, s5, q5 = closed_cell_shear_flow(points, t, Vy, Vx, samples=3)
+    best = WallStressPeak(0.0, 0, 0.0, segs[0].start)
+    for k, seg in enumerate(segs):
+        d, r0, L = seg.direction, np.array(seg.start) - c, seg.length
+        ss = _quadratic_candidates(L, d, r0, a, b)
+        # q on segment k is the quadratic through its three samples (ends and middle)
+        qq = np.polyval(np.polyfit(s5[k], q5[k], 2), ss)
+        tau = np.abs(qq) / t
+        j = int(np.argmax(tau))
+        if tau[j] > best.tau:
+            best = WallStressPeak(float(tau[j]), k, float(ss[j]),
+                                  (seg.start[0] + ss[j] * d[0], seg.start[1] + ss[j] * d[1]))
+    return best
+
+
+def box_centreline(width: float, depth: float, wall: float) -> list[tuple[float, float]]:
+    """Centre-line rectangle of a box of outside ``width`` x ``depth`` and wall ``wall``,
+    centred on the origin (the :func:`classical.shapes.box` frame), counter-clockwise."""
+    x, y = (width - wall) / 2, (depth - wall) / 2
+    return [(-x, -y), (x, -y), (x, y), (-x, y)]
+
+
+TUBE_FACETS = 360  # centre-line polygon of a tube: flow error ~ (pi/360)^2 ~ 1e-4 relative
+
+
+def tube_centreline(diameter: float, wall: float, n: int = TUBE_FACETS
+                    ) -> list[tuple[float, float]]:
+    """Centre-line circle (radius (diameter - wall)/2) of a tube as an n-gon, centred on
+    the origin, counter-clockwise."""
+    r = (diameter - wall) / 2
+    th = 2 * math.pi * (np.arange(n) + 0.5) / n
+    return [(float(r * math.cos(a)), float(r * math.sin(a))) for a in th]
+
+
+def tube_thinwall_peak(diameter: float, wall: float, V: float) -> float:
+    """Peak shear stress of a thin circular tube: tau = V/(pi R t) = 2 V/A at the neutral
+    axis, R = (diameter - wall)/2 the centre-line radius, A = 2 pi R t.  Source: Megson,
+    Ch. 17, closed circular section (from memory); common practice.  Valid for t << R."""
+    r = (diameter - wall) / 2
+    return V / (math.pi * r * wall)

@@ -82,3 +82,37 @@ def test_bad_placements(load, fragment):
     text = COPED.format(fillet=0.0).replace('at = [350.0, 300.0]\nwidth = 20.0', load)
     with pytest.raises(CaseError, match=fragment):
         parse_case(text, "p.toml")
+
+
+def _dented(angle_deg: float):
+    """A 100 x 50 plate whose top edge dips to one vertex at x = 50: the material angle
+    there is 180 + 2 atan(h/50) degrees (geometry), set to `angle_deg`."""
+    from shapely.geometry import Polygon
+
+    h = 50.0 * math.tan(math.radians((angle_deg - 180.0) / 2))
+    return Polygon([(0, 0), (100, 0), (100, 50), (50, 50 - h), (0, 50)])
+
+
+def test_corner_angle_rule_185_is_not_a_corner_200_is():
+    """The corner rule (fem.case.outline.CORNER_ANGLE = 190 degrees): a 185-degree kink is
+    not a re-entrant corner, a 200-degree one is, at the kink and with its angle."""
+    from fem.case.outline import is_sharp_corner
+
+    assert not is_sharp_corner(185.0) and is_sharp_corner(200.0)
+    assert reentrant_corners(_dented(185.0)) == []
+    found = reentrant_corners(_dented(200.0))
+    assert len(found) == 1 and found[0].at == pytest.approx((50.0, 50 - 50 * math.tan(
+        math.radians(10.0))))
+    assert found[0].angle == pytest.approx(200.0, abs=1e-9)
+
+
+def test_faceted_arc_is_not_a_corner():
+    """A plate whose top edge is a concave arc drawn with 181 points (1-degree facets: each
+    vertex has a 181-degree material angle) has no re-entrant corner."""
+    from shapely.geometry import Polygon
+
+    th = [math.radians(180 + 180 * k / 180) for k in range(181)]
+    arc = [(50 + 40 * math.cos(a), 100 + 40 * math.sin(a)) for a in th][::-1]  # 90 -> 10
+    dom = Polygon([(0, 0), (100, 0), (100, 100), *arc, (0, 100)])
+    assert dom.is_valid and dom.area == pytest.approx(1e4 - math.pi * 40**2 / 2, rel=1e-3)
+    assert reentrant_corners(dom) == []

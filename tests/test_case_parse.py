@@ -72,3 +72,22 @@ def test_units_stress_names_the_unit_force_and_length_give():
         parse_case(kn.replace('"GPa"', '"MPa"'), "c.toml")
     with pytest.raises(CaseError, match="units.stress.*'bar' is not allowed"):
         parse_case(kn.replace('"GPa"', '"bar"'), "c.toml")
+
+
+def test_section_method_defaults_to_auto_beam_to_shear_formula():
+    """A section case without check.method asks for "auto" (the hand method picked by the
+    section, fem.section.hand_method); a beam keeps "shear-formula"; thin-wall is a
+    section method only."""
+    sec = ("schema = 1\nname = \"s\"\nkind = \"section\"\n[material]\nE = 2e5\nnu = 0.3\n"
+           "[geometry]\nshape = \"rectangle\"\nwidth = 10.0\ndepth = 20.0\n"
+           "[loads]\nshear = [0.0, 1.0]\n[mesh]\nsize = 2.0\n")
+    assert parse_case(sec, "s.toml").check.method == "auto"
+    assert parse_case(sec + "[check]\ntolerance = 0.1\n", "s.toml").check.method == "auto"
+    with pytest.raises(CaseError, match="check.method"):
+        parse_case(sec.replace("rectangle", "circle").replace(
+            "width = 10.0\ndepth = 20.0", "diameter = 10.0") + "[check]\nmethod = \"thin-wall\"\n",
+            "s.toml")
+    assert parse_case(_cant(), "b.toml").check.method == "shear-formula"
+    with pytest.raises(CaseError, match="check.method"):
+        parse_case(_cant().replace("cuts = [100.0]", "cuts = [100.0]\nmethod = \"thin-wall\""),
+                   "b.toml")

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 import pytest
 
@@ -135,3 +137,48 @@ def test_closed_section_rejected() -> None:
         shear_centre(tri)
     with pytest.raises(ValueError):
         shear_flow(tri, 0, np.array([0.5]), 1.0)
+
+
+def test_equal_angle_wall_stress_peak() -> None:
+    """Equal angle, centre-line legs b from the corner, wall t, shear Vy: A = 2bt, centroid
+    (b/4, b/4), Ixx = Iyy = 5tb^3/24, Ixy = -tb^3/8, so q = (7.5 Qx + 4.5 Qy) V/(t b^3)
+    (module formula, Megson Ch. 16); on the vertical leg dq/dy = 0 at y = 0.4 b, where
+    tau = 1.35 V/(b t) (derived here by hand from that formula).  b = 79, t = 2,
+    V = 10 kN: 85.44."""
+    from classical.thinwall import wall_stress_peak
+
+    b, t, V = 79.0, 2.0, 1.0e4
+    pk = wall_stress_peak(angle_centreline(b, b, t), V)
+    assert pk.tau == pytest.approx(1.35 * V / (b * t), rel=1e-12)
+    assert pk.at == pytest.approx((0.0, 0.4 * b), abs=1e-9)
+
+
+def test_closed_cells_tube_and_box() -> None:
+    """Closed single cells (closed-cell correction, Megson Ch. 17, from memory): a thin
+    tube peaks at V/(pi R t) = 2V/A on the neutral axis (360-gon centre line: 1e-4);
+    a box of centre lines b x h, wall t, at 3V(2b + h)/(4 t h (h + 3b)) mid-web (cut at
+    the top flange's middle, where q = 0 by symmetry; derived here by hand).  The flow's
+    resultant is the applied shear (Simpson's rule is exact for the quadratic q)."""
+    from classical.thinwall import (
+        box_centreline,
+        closed_cell_shear_flow,
+        closed_cell_stress_peak,
+        tube_centreline,
+        tube_thinwall_peak,
+    )
+
+    V = 1000.0
+    assert tube_thinwall_peak(100.0, 2.0, V) == pytest.approx(V / (math.pi * 49.0 * 2.0))
+    tube = closed_cell_stress_peak(tube_centreline(100.0, 2.0), 2.0, V)
+    assert tube.tau == pytest.approx(tube_thinwall_peak(100.0, 2.0, V), rel=1e-4)
+    assert abs(tube.at[1]) < 1.0
+    b, h, t = 78.0, 38.0, 2.0
+    box = closed_cell_stress_peak(box_centreline(b + t, h + t, t), t, V)
+    assert box.tau == pytest.approx(3 * V * (2 * b + h) / (4 * t * h * (h + 3 * b)), rel=1e-12)
+    assert abs(box.at[1]) < 1e-9 and abs(abs(box.at[0]) - b / 2) < 1e-9
+    segs, s, q = closed_cell_shear_flow(box_centreline(b + t, h + t, t), t, V, samples=3)
+    fy = sum((sk[-1] - sk[0]) / 6 * (qk[0] + 4 * qk[1] + qk[2]) * seg.direction[1]
+             for seg, sk, qk in zip(segs, s, q, strict=True))
+    fx = sum((sk[-1] - sk[0]) / 6 * (qk[0] + 4 * qk[1] + qk[2]) * seg.direction[0]
+             for seg, sk, qk in zip(segs, s, q, strict=True))
+    assert abs(fy) == pytest.approx(V, rel=1e-12) and abs(fx) < 1e-9 * V

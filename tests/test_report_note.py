@@ -81,7 +81,8 @@ def test_output_folder_holds_every_file(run):
     res, out, files = run
     n = len(res.result.cuts)
     expected = {"results.json", "report.html", "report.pdf", "fields.vtu", "profiles.csv",
-                "shear-contour.png", "von-mises-contour.png", "convergence.png"}
+                "shear-contour.png", "von-mises-contour.png", "convergence.png",
+                "ratio-along-member.png"}
     expected |= {f"profile-{k:02d}.png" for k in range(1, n + 1)}
     assert {f.name for f in files} == expected
     assert {p.name for p in out.iterdir()} == expected

@@ -143,7 +143,7 @@ def test_to_dict_has_contract_keys_and_serialises(tmp_path):
     res = r.results()
     assert set(res) >= {"section", "mesh", "verdict", "findings", "timings"}
     assert set(res["timings"]) >= {"mesh", "assemble", "solve", "post"}
-    assert set(res["mesh"]) == {"nodes", "elements", "dofs", "size", "order"}
+    assert set(res["mesh"]) >= {"nodes", "elements", "dofs", "size", "order"}
     text = json.dumps(res)
     assert json.loads(text)["section"]["J"] == pytest.approx(r.J)
     assert r.shear_centre[0] < 0 < r.centroid[0]   # channel: shear centre behind the web
@@ -171,3 +171,64 @@ def test_sharp_corner_peak_grows_fillet_peak_converges():
     round_ = [check_section("tee", {**tee, "root_radius": 4.0}, E, 0.3, 0.0, 1e4, h)
               for h in (4.0, 2.0)]
     assert round_[1].tau_max_fe / round_[0].tau_max_fe == pytest.approx(1.0, abs=0.02)
+
+
+def _semicircle(R: float, t: float, n: int = 181) -> list[list[float]]:
+    """Thin semicircular arc of centre-line radius R and wall t about the origin, on the
+    side x >= 0, as a polygon of n points on each face (1-degree facets for n = 181)."""
+    th = np.linspace(-math.pi / 2, math.pi / 2, n)
+    outer = [[(R + t / 2) * math.cos(a), (R + t / 2) * math.sin(a)] for a in th]
+    inner = [[(R - t / 2) * math.cos(a), (R - t / 2) * math.sin(a)] for a in th[::-1]]
+    return outer + inner
+
+
+def test_faceted_semicircle_has_no_singular_corner_and_its_shear_centre():
+    """Thin semicircular arc R = 50, t = 2 drawn as a 181-point polygon per face: the inner
+    face's vertices (181-degree material angles) are not corners, so no singular finding,
+    no exclusion discs (regular peak = raw peak).  The shear centre lies 4R/pi from the
+    arc's centre, beyond the arc (thin-walled theory, common practice), within 0.5 %."""
+    R, t = 50.0, 2.0
+    r = check_section("polygon", dict(points=_semicircle(R, t)), E, 0.3, 0.0, 1000.0, 1.0)
+    assert not [f for f in r.findings if f.kind == "singular"]
+    assert r.tau_max_regular == r.tau_max_fe
+    assert r.shear_centre[0] == pytest.approx(4 * R / math.pi, rel=5e-3)
+    assert abs(r.shear_centre[1]) < 1e-6 * R
+
+
+def test_thin_equal_angle_uses_the_thin_wall_shear_flow():
+    """Equal angle 80 x 80 x 2 under Vy = 10 kN: thin (wall/size 0.025), so the hand value is
+    the centre-line shear flow, 1.35 V/(b t) = 85.44 MPa with b = 79 (test_classical_thinwall;
+    Megson Ch. 16), not the principal-axis VQ/(Ib) on horizontal cuts (64.06 MPa, kept as
+    tau_chord_hand).  The FE peak away from the singular inner corner is within 1 % of it;
+    the section dict names the method and why."""
+    r = check_section("angle", dict(leg_x=80.0, leg_y=80.0, thickness=2.0), E, 0.3,
+                      0.0, 1.0e4, 1.0)
+    assert r.method == "thin-wall" and "thin-walled open" in r.method_reason
+    assert r.hand == r.tau_max_hand == pytest.approx(1.35e4 / 158.0, rel=1e-12)
+    assert r.tau_chord_hand == pytest.approx(64.06, rel=1e-3)
+    assert r.ratio == pytest.approx(1.0, abs=1e-2)
+    d = r.to_dict()
+    assert d["hand_method_used"] == "thin-wall" and d["hand_method_reason"] == r.method_reason
+    forced = check_section("angle", dict(leg_x=80.0, leg_y=80.0, thickness=2.0), E, 0.3,
+                           0.0, 1.0e4, 4.0, method="shear-formula")
+    assert forced.method == "shear-formula" and forced.hand == pytest.approx(64.06, rel=1e-3)
+    with pytest.raises(ValueError, match="centre line"):
+        check_section("circle", dict(diameter=20.0), E, 0.3, 0.0, 1.0, 2.0, method="thin-wall")
+
+
+def test_sharp_i_headline_ratio_is_the_regular_one():
+    """I 300 x 150 x 10.7 x 7.1 without root radius: the raw FE peak sits at a singular
+    re-entrant corner (ratio_raw 1.9 x the hand value at this mesh, growing with
+    refinement; kept with tau_max_fe), but
+    the headline ratio is the peak away from the corners, the web shear, 1.00 x the hand
+    value (thin-walled web flow, equal to VQ/(It) here; elementary beam theory) within 1 %.
+    The singular finding says the headline uses the regular peak and to model the root
+    radius."""
+    s = check_section("i", I_SECTION, E, 0.3, 0.0, 1e5, 5.0)
+    assert s.ratio_raw > 1.5  # 1.90 at size 5; grows with refinement
+    assert s.ratio == pytest.approx(s.tau_max_regular / s.hand, rel=1e-12)
+    assert s.ratio == pytest.approx(1.0, abs=1e-2)
+    assert s.to_dict()["ratio"] == s.ratio and s.to_dict()["tau_max_fe"] == s.tau_max_fe
+    sing = [f for f in s.findings if f.kind == "singular"]
+    assert len(sing) == 1 and "root radius" in sing[0].message
+    assert "headline" in sing[0].message

@@ -167,3 +167,21 @@ def test_errors_name_the_problem_and_gmsh_is_released():
             mesh_section(section_shape("circle", diameter=1.0), size=0.2)
     finally:
         gmsh.finalize()
+
+
+def _dent(angle_deg: float) -> list[list[float]]:
+    """100 x 50 rectangle whose top edge dips to one vertex at x = 50 with a material angle
+    of 180 + 2 atan(h/50) = angle_deg degrees (geometry)."""
+    h = 50.0 * math.tan(math.radians((angle_deg - 180.0) / 2))
+    return [[0, 0], [100, 0], [100, 50], [50, 50 - h], [0, 50]]
+
+
+def test_section_corner_angle_rule_185_is_not_a_corner_200_is():
+    """The section corner rule is the members' (fem.case.outline.CORNER_ANGLE = 190
+    degrees): a 185-degree kink is no sharp re-entrant corner (not refined, no exclusion
+    disc), a 200-degree kink is one, with its angle."""
+    soft = section_shape("polygon", points=_dent(185.0))
+    assert len(soft.sharp_reentrant_corners()) == 0
+    hard = section_shape("polygon", points=_dent(200.0))
+    assert len(hard.sharp_reentrant_corners()) == 1
+    assert np.degrees(hard.sharp_reentrant_angles()[0]) == pytest.approx(200.0, abs=1e-9)

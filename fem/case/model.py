@@ -14,7 +14,8 @@ from classical.units import stress_unit
 __all__ = [
     "Case", "Units", "Material", "Hole", "Cutout", "Zone", "Placement", "Support", "Load",
     "Refine", "MeshSpec", "Check", "BeamGeometry", "SectionGeometry", "SCHEMA", "EDGES",
-    "METHODS", "SECTION_SHAPES", "FIXES", "DISTRIBUTIONS", "MAX_NAME", "MAX_NU_STRAIN",
+    "METHODS", "SECTION_METHODS", "THIN_WALL_SHAPES", "SECTION_SHAPES", "FIXES",
+    "DISTRIBUTIONS", "MAX_NAME", "MAX_NU_STRAIN",
 ]
 
 SCHEMA = 1
@@ -22,6 +23,10 @@ MAX_NAME = 64  # characters in a case name (it becomes a folder name)
 MAX_NU_STRAIN = 0.499  # plane strain above this: volumetric locking, ill-conditioned stiffness
 EDGES = ("left", "right", "top", "bottom")
 METHODS = ("shear-formula", "average", "single-shear", "double-shear")
+# sections: "auto" (the default) picks thin-wall or shear-formula (fem.section.hand_method)
+SECTION_METHODS = ("auto", "shear-formula", "thin-wall", "average", "single-shear",
+                   "double-shear")
+THIN_WALL_SHAPES = ("i", "channel", "tee", "angle", "tube", "box")  # with a centre-line model
 FIXES = ("xy", "x", "y")
 DISTRIBUTIONS = ("uniform", "parabolic", "cosine")
 SECTION_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {

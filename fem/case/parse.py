@@ -29,6 +29,7 @@ from fem.case.model import (
     MAX_NU_STRAIN,
     METHODS,
     SCHEMA,
+    SECTION_METHODS,
     SECTION_SHAPES,
     BeamGeometry,
     Case,
@@ -204,9 +205,11 @@ def _mesh(t: Table) -> MeshSpec:
 
 
 def _check(t: Table | None, kind: str) -> Check:
+    beam = kind == "beam"
     if t is None:
-        return Check()
-    method = t.text("method", "shear-formula", allowed=METHODS)
+        return Check() if beam else Check(method="auto")
+    method = t.text("method", "shear-formula" if beam else "auto",
+                    allowed=METHODS if beam else SECTION_METHODS)
     cuts = t.numbers("cuts", None) if kind == "beam" else None
     if cuts is not None and not cuts:
         raise t.error("cuts", "is empty; leave it out for the automatic set")

@@ -14,7 +14,7 @@ from typing import Any
 
 from shapely.geometry import Polygon
 
-from fem.case.model import Case, SectionGeometry
+from fem.case.model import THIN_WALL_SHAPES, Case, SectionGeometry
 from fem.errors import CaseError
 
 __all__ = ["validate_section", "section_extent", "MIN_RADIUS", "MAX_SIZE"]
@@ -121,6 +121,9 @@ def validate_section(case: Case) -> None:
                                                      f"leg ({leg:g})")
     if g.shape == "polygon":
         _polygon(p, f)
+    if case.check.method == "thin-wall" and g.shape not in THIN_WALL_SHAPES:
+        raise CaseError(f, "check.method", f"'thin-wall' needs a shape with a centre line "
+                                           f"({', '.join(THIN_WALL_SHAPES)}), not {g.shape!r}")
     extent = section_extent(g)
     if case.mesh.size > MAX_SIZE * extent:
         raise CaseError(f, "mesh.size", f"{case.mesh.size:g} is larger than the section "

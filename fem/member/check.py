@@ -24,7 +24,7 @@ from fem.member.adapt import next_size_field, representative_size
 from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
 from fem.member.envelope import member_envelope
-from fem.member.level import Level, excluded_zones, run_level
+from fem.member.level import ExcludedZone, Level, excluded_zones, run_level
 from fem.progress import Progress, as_progress
 from fem.results import (
     ConvergenceResult,
@@ -81,7 +81,7 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     cuts, peak = cut_results(fin), peak_result(fin)
     zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
     findings = beam_findings(case, fin, cuts, peak, zones)
-    envelope = member_envelope(case, fin, zones)
+    envelope = member_envelope(case, fin, zones + _corner_zones(case))
     findings += _envelope_findings(case, envelope, cuts)
     study = _study_of(case)
     conc = concentrations(case, levels, zones, study)
@@ -135,6 +135,15 @@ def _run_levels(case: Case, progress: Progress | Callable[[str], None] | None) -
     finally:
         prog.close()
     return levels
+
+
+def _corner_zones(case: Case) -> list[ExcludedZone]:
+    """Discs around sharp re-entrant corners, left out of the envelope: there the elastic
+    stress has no finite value, and the corner is judged by its own (singular or
+    concentration) finding instead."""
+    r = CORNER_RADIUS * _depth(case)
+    return [ExcludedZone(at=c.at, radius=r, why=f"the sharp {c.angle:.0f} degree corner")
+            for c in reentrant_corners(domain_polygon(case.geometry))]  # type: ignore[arg-type]
 
 
 def _envelope_findings(case: Case, env: Envelope, cuts: list[CutResult]) -> list[Finding]:

@@ -51,11 +51,20 @@ def section_hand(res: Any) -> Section:
                          f"at {math.degrees(hp['angle']):.3g}°")
     lines.append(f"  V = (Vx, Vy) = ({sci(Vx)}, {sci(Vy)}) {F}, |V| = {sci(V)} {F}, through the "
                  "shear centre")
-    if "tau_max_hand" in sec:
+    used = sec.get("hand_method_used", r.hand_method)
+    if used == "thin-wall" and sec.get("tau_max_hand") is not None:
+        lines.append(f"  thin-walled shear flow along the centre line, peak |q|/t = "
+                     f"{sci(sec['tau_max_hand'])} {S}")
+        if sec.get("tau_chord_hand") is not None:
+            lines.append(f"  (τ = VQ/(Ib) on cuts parallel to an axis, for reference: "
+                         f"{sci(sec['tau_chord_hand'])} {S})")
+    elif "tau_max_hand" in sec:
         lines.append(f"  τ = VQ/(Ib), worst cut = {sci(sec['tau_max_hand'])} {S}")
     if A:
         lines.append(f"  V/A = {sci(V)} / {sci(A)} = {sci(V / A)} {S}")
-    if sec.get("hand") is not None and r.hand_method != "shear-formula":
+    if sec.get("hand_method_reason"):
+        lines.append(f"  hand method: {used}, chosen because: {sec['hand_method_reason']}")
+    if sec.get("hand") is not None and used not in ("shear-formula", "thin-wall"):
         lines.append(f"  hand value of the {r.hand_method} method: {sci(sec['hand'])} {S}")
     if c.check.hand_value:
         lines.append(f"  your own hand value: {sci(c.check.hand_value)} {S}")
@@ -100,14 +109,21 @@ def section_comparison(res: Any) -> Section:
     ratio = sec.get("ratio")
     over = ratio is not None and ratio > 1 + tol
     size = math.sqrt(sec["A"]) if sec.get("A") else 0.0
-    rows = [["peak |τ| over the section", sci(sec.get("tau_max_fe")),
-             _pair(sec.get("tau_at"), size),
-             sci(sec.get("tau_max_hand")), "–" if ratio is None else f"{ratio:.3f}",
+    hand = sec.get("hand", sec.get("tau_max_hand"))
+    reg = sec.get("tau_max_regular")
+    raw = sec.get("tau_max_fe")
+    corners = reg is not None and raw and abs(reg - raw) > 1e-9 * reg
+    rows = [["peak |τ| away from sharp corners" if corners else "peak |τ| over the section",
+             sci(reg if corners else raw),
+             _pair(sec.get("tau_at_regular") if corners else sec.get("tau_at"), size),
+             sci(hand), "–" if ratio is None else f"{ratio:.3f}",
              "–" if ratio is None else f"exceeds by {ratio - 1:.0%}" if over
              else "within tolerance"]]
-    reg = sec.get("tau_max_regular")
-    if reg is not None and sec.get("tau_max_fe") and abs(reg - sec["tau_max_fe"]) > 1e-9 * reg:
-        rows.append(["peak away from sharp corners", sci(reg), "", "", "", ""])
+    if corners:
+        raw_ratio = sec.get("ratio_raw")
+        rows.append(["peak at a sharp corner (singular: depends on the mesh)", sci(raw),
+                     _pair(sec.get("tau_at"), size), "",
+                     "–" if raw_ratio is None else f"{raw_ratio:.3f}", "not compared"])
     na = sec.get("neutral_axis") or {}
     if na.get("tau_fe_mean") is not None:
         hand = na.get("tau_hand")
@@ -116,7 +132,8 @@ def section_comparison(res: Any) -> Section:
                      ""])
     s.items.append(Table(["quantity", f"FE [{S}]", f"at (x, y) [{L}]", f"hand [{S}]",
                           "FE / hand", "shear check"], rows,
-                         f"Hand value: the {r.hand_method} value; tolerance {tol:.0%}",
+                         f"Hand value: the {sec.get('hand_method_used', r.hand_method)} value; "
+                         f"tolerance {tol:.0%}",
                          marked={0} if over else set()))
     cut_rows = []
     for k, cut in enumerate(sec.get("cuts") or [], start=1):
@@ -138,12 +155,14 @@ def section_verdict_words(res: Any) -> str | None:
     """The verdict in one sentence, or None when the result lacks the numbers."""
     r = res.result
     sec = r.section or {}
-    ratio, fe, hand = sec.get("ratio"), sec.get("tau_max_fe"), sec.get("tau_max_hand")
+    ratio, hand = sec.get("ratio"), sec.get("hand", sec.get("tau_max_hand"))
+    fe = sec.get("tau_max_regular", sec.get("tau_max_fe"))
     if ratio is None or fe is None or hand is None:
         return None
     S = r.units["stress"]
     words = {"holds": "holds for this section", "unsafe": "is unsafe for this section",
              "inconclusive": "is inconclusive for this section (see findings)"}
-    return (f"The {r.hand_method} check {words.get(r.verdict, r.verdict)}: the FE peak "
+    used = sec.get("hand_method_used", r.hand_method)
+    return (f"The {used} check {words.get(r.verdict, r.verdict)}: the FE peak "
             f"{sci(fe)} {S} is {ratio:.3f} times the hand value {sci(hand)} {S} (tolerance "
             f"{r.tolerance:.0%}).")

@@ -73,8 +73,7 @@ def check_section_case(case: Case,
     fin = levels[-1]
     sizes = [level_size(case, k) for k in range(len(levels))]
     study = _study(case, levels, sizes)
-    findings = [Finding(kind=f.kind, at=list(f.at), ratio=f.ratio, message=f.message)
-                for f in fin.findings] + _extra_findings(fin, levels, study)
+    findings = list(fin.findings) + _extra_findings(fin, levels, study)
     tol = case.check.tolerance
     singular_governs = (any(f.kind == "singular" for f in findings)
                         and fin.ratio > 1.0 + tol)
@@ -143,4 +142,4 @@ def _result(case: Case, levels: list[SectionCheck], sizes: list[float], study: _
             quantities={"section tau_max outside corners": {
                 "values": [lv.tau_max_regular for lv in levels]}}),
         equilibrium=Equilibrium(**d["equilibrium"]), section=d["section"],
-        hand_method=case.check.method, tolerance=case.check.tolerance)
+        hand_method=levels[-1].method, tolerance=case.check.tolerance)

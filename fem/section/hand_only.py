@@ -17,6 +17,7 @@ from classical.sections import (
 from classical.shear import average_shear, direct_shear, max_shear_formula
 from fem.case.model import Case
 from fem.results import Result, Timings
+from fem.section.hand_method import choose_method, thin_wall_peak
 
 __all__ = ["section_hand_result"]
 
@@ -36,8 +37,12 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     mx = max_shear_formula(outline, abs(Vy)) if Vy else None
     tau_formula = mx.tau_max if mx is not None else float("nan")
     avg = average_shear(V, p.A)
-    method = case.check.method
-    if method == "shear-formula":
+    choice = choose_method(g.shape, dict(g.params), case.check.method)  # type: ignore
+    method = choice.method
+    thin = thin_wall_peak(g.shape, dict(g.params), Vx, Vy) if method == "thin-wall" else None
+    if thin is not None:
+        tau_hand = thin.tau
+    elif method == "shear-formula":
         tau_hand = tau_formula
     elif method == "double-shear":
         tau_hand = direct_shear(V, p.A, 2)
@@ -53,15 +58,22 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
         b = chord_length(outline, mx.y_at)
         lines.append(f"  shear formula (Vy) worst cut y = {mx.y_at:.4g} {L}: tau = V Q/(I b) = "
                      f"{abs(Vy):.6g} x {q:.6g} / ({p.Ixx:.6g} x {b:.4g}) = {tau_formula:.4g} {S}")
+    if thin is not None:
+        lines.append(f"  thin-walled shear flow along the centre line: peak |q|/t = "
+                     f"{thin.tau:.4g} {S} at ({thin.at[0]:.4g}, {thin.at[1]:.4g}) {L}")
+    lines.append(f"  hand method: {method} ({choice.reason})")
     lines.append(f"  average V/A = {V:.6g}/{p.A:.6g} = {avg:.4g} {S}")
     if method in ("single-shear", "double-shear"):
         n = 1 if method == "single-shear" else 2
         lines.append(f"  {method}: F/({n}A) = {tau_hand:.4g} {S}")
     section = {"A": p.A, "I": {"xx": p.Ixx, "yy": p.Iyy, "xy": p.Ixy},
                "centroid": [p.cx, p.cy], "shear_centre": None, "J": None, "tau_max_fe": None,
-               "tau_at": None, "tau_max_hand": tau_formula if mx is not None else None,
+               "tau_at": None, "tau_max_hand":
+                   (thin.tau if thin else tau_formula if mx is not None else None),
+               "tau_chord_hand": tau_formula if mx is not None else None,
                "tau_avg_hand": avg, "ratio": None, "tau_method_hand": tau_hand,
-               "neutral_axis": {"s": [], "tau_fe": [], "tau_hand": []}}
+               "neutral_axis": {"s": [], "tau_fe": [], "tau_hand": []},
+               "hand_method_used": method, "hand_method_reason": choice.reason}
     res = Result(case=case.name, kind="section", title=case.title, units=_units(case),
                  mesh=None, verdict="inconclusive", findings=[], timings=Timings(),
                  convergence=None, section=section, hand_method=method,

@@ -14,6 +14,10 @@ outline (:func:`classical.shear.max_shear_formula`, ``shear_profile``, ``average
   The worst cut parallel to the neutral axis (generalised formula, below) is also
   scanned and the larger of the two is ``tau_max_hand``; for one shear component on a
   section with I_xy = 0 both are the classical horizontal (V_y) or vertical (V_x) cuts.
+* **thin-wall** (the default ``auto`` choice for thin open and closed walls,
+  :mod:`fem.section.hand_method`): the shear flow along the centre line, peak |q|/t; for
+  it ``tau_max_hand`` is that peak (the shear formula on cuts across the wall), and
+  ``tau_chord_hand`` keeps the worst cut parallel to an axis.
 * **average** / **single-shear**: ``|V| / A``.
 * **double-shear**: a pin carrying F = |V| through two shear planes; each plane carries
   V/2, so the FE section is solved with V/2 and the hand value is ``F / (2 A)``.
@@ -37,24 +41,16 @@ import numpy as np
 
 from classical.sections import Outline, chord_segments, polygon_properties
 from classical.shear import average_shear, direct_shear, max_shear_formula, shear_profile
+from fem.case.model import SECTION_METHODS
+from fem.results import Finding, MeshInfo
+from fem.section.hand_method import choose_method, thin_wall_peak
 from fem.section.mesh import mesh_section, section_shape
 from fem.section.solve import SectionSolution, solve_section
 
-__all__ = ["CutProfile", "Finding", "MeshInfo", "SectionCheck", "check_section", "METHODS"]
+__all__ = ["CutProfile", "SectionCheck", "check_section", "METHODS"]
 
-METHODS = ("shear-formula", "average", "single-shear", "double-shear")
-
-
-@dataclass(frozen=True)
-class Finding:
-    """One observation: ``kind`` (edge-excess, junction-peak, singular, hand-value,
-    method-excess), where, FE over the compared value, and a plain-words message."""
-
-    kind: str
-    at: tuple[float, float]
-    ratio: float | None
-    message: str
-
+#: hand methods of a section check; ``auto`` picks by the section (fem.section.hand_method)
+METHODS = SECTION_METHODS
 
 @dataclass(frozen=True)
 class CutProfile:
@@ -70,20 +66,12 @@ class CutProfile:
 
 
 @dataclass(frozen=True)
-class MeshInfo:
-    nodes: int
-    elements: int
-    dofs: int
-    size: float
-    order: int
-
-
-@dataclass(frozen=True)
 class SectionCheck:
     """Result of :func:`check_section`; ``to_dict`` gives the contract's ``section`` object."""
 
     shape: str
-    method: str
+    method: str                 # the method used (``auto`` resolved)
+    method_reason: str          # why that method, in plain words
     tolerance: float
     V: tuple[float, float]
     V_solved: tuple[float, float]
@@ -97,10 +85,13 @@ class SectionCheck:
     tau_max_fe: float
     tau_at: tuple[float, float]
     tau_max_regular: float
+    tau_at_regular: tuple[float, float]
     tau_max_hand: float
+    tau_chord_hand: float
     tau_avg_hand: float
     hand: float
-    ratio: float
+    ratio: float                # regular peak / hand: the headline (corner zones left out)
+    ratio_raw: float            # raw peak anywhere / hand
     hand_value: float | None
     hand_properties: dict[str, float]
     neutral_axis: CutProfile
@@ -122,14 +113,17 @@ class SectionCheck:
             "shear_centre": list(self.shear_centre), "J": self.J,
             "tau_max_fe": self.tau_max_fe, "tau_at": list(self.tau_at),
             "tau_max_hand": self.tau_max_hand, "tau_avg_hand": self.tau_avg_hand,
-            "ratio": self.ratio,
+            "ratio": self.ratio, "ratio_raw": self.ratio_raw,
+            "hand_method_used": self.method, "hand_method_reason": self.method_reason,
             "neutral_axis": {"s": list(na.s), "tau_fe": list(na.tau_fe),
                              "tau_hand": [na.tau_hand] * len(na.s),
                              "x": list(na.x), "y": list(na.y), "tau_fe_mean": na.tau_fe_mean},
             "method": self.method, "hand": self.hand, "hand_value": self.hand_value,
             "V": list(self.V), "V_solved": list(self.V_solved),
             "shear_centre_nu": list(self.shear_centre_nu),
-            "tau_max_regular": self.tau_max_regular, "G": self.G, "GJ": self.G * self.J,
+            "tau_max_regular": self.tau_max_regular,
+            "tau_at_regular": list(self.tau_at_regular), "tau_chord_hand": self.tau_chord_hand,
+            "G": self.G, "GJ": self.G * self.J,
             "shear_coefficients": list(self.shear_coefficients),
             "torsion_stress_per_torque": self.torsion_stress_per_torque,
             "hand_properties": dict(self.hand_properties),
@@ -193,7 +187,7 @@ def _near(p: np.ndarray, pts: np.ndarray, r: float) -> bool:
 
 
 def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: float,
-                  size: float, order: int = 2, method: str = "shear-formula",
+                  size: float, order: int = 2, method: str = "auto",
                   tolerance: float = 0.05, hand_value: float | None = None) -> SectionCheck:
     """Solve a section for shear (Vx, Vy) through its shear centre and compare with hand.
 
@@ -208,7 +202,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     size, order
         Target element size [length] and element order (1 or 2).
     method
-        ``shear-formula`` | ``average`` | ``single-shear`` | ``double-shear`` (module doc).
+        ``auto`` (thin walls ``thin-wall``, solid sections ``shear-formula``; see
+        :func:`fem.section.hand_method.choose_method`) | ``shear-formula`` | ``thin-wall`` |
+        ``average`` | ``single-shear`` | ``double-shear`` (module doc).
     tolerance
         FE above the hand value by more than this fraction -> ``unsafe``.
     hand_value
@@ -221,12 +217,15 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         the stress is singular, governs) with findings; one mesh only (a refinement study
         repeats the call with smaller ``size``).  ``tau_max_regular`` is the peak outside
         discs of radius max(size, 0.05 sqrt(A)) around sharp re-entrant corners; the
-        verdict uses it, ``tau_max_fe`` and ``ratio`` are the peak anywhere.
+        verdict and the headline ``ratio`` use it; ``tau_max_fe`` and ``ratio_raw`` are
+        the peak anywhere (which at a singular corner depends on the mesh).
     """
     if method not in METHODS:
         raise ValueError(f"unknown method {method!r}; valid methods: {', '.join(METHODS)}")
     if Vx == 0.0 and Vy == 0.0:
         raise ValueError("the shear [Vx, Vy] must not be zero")
+    choice = choose_method(shape, params, method)
+    method = choice.method
     geom = section_shape(shape, **params)
     smesh = mesh_section(geom, size, order)
     sol = solve_section(smesh, nu)
@@ -262,7 +261,10 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     tau_sf, theta = _shear_formula_peak(geom.outline, Vs)
     if min(abs(math.sin(phi - theta)), abs(math.cos(phi - theta))) > 1e-9:  # other cuts
         tau_sf = max(tau_sf, _peak(geom.outline, (hp.cx, hp.cy), phi, v_eff))
-    hand = tau_sf if method == "shear-formula" else tau_avg
+    tau_chord = tau_sf
+    if method == "thin-wall":
+        tau_sf = thin_wall_peak(shape, params, *Vs).tau
+    hand = tau_sf if method in ("shear-formula", "thin-wall") else tau_avg
     na = _cut(sol, o_na, frame, v_eff, 0.0, Vs, 201)
     eta = np.concatenate([r[:, 1] for r in o_na.rings])
     levels = sorted({*(fr * eta.max() for fr in (0.25, 0.5, 0.75)),
@@ -270,19 +272,20 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     cuts = tuple(_cut(sol, o_na, frame, v_eff, e, Vs, 101) for e in levels)
 
     findings = []
-    ratio, ratio_r = peak / hand, peak_r / hand
+    ratio_raw, ratio = peak / hand, peak_r / hand
     lim = 1.0 + tolerance
     singular = _near(at, sharp, 1e-9 * size + 0.5 * size)
     if singular:
         kc = int(np.argmin(np.linalg.norm(sharp - at, axis=1)))
         alpha = float(geom.sharp_reentrant_angles()[kc])
-        findings.append(Finding("singular", (float(at[0]), float(at[1])), ratio,
+        findings.append(Finding("singular", [float(at[0]), float(at[1])], ratio_raw,
             f"The FE peak {peak:.4g} sits at a sharp re-entrant corner (material angle "
             f"{math.degrees(alpha):.0f} degrees), where the elastic shear stress is singular, "
             f"growing like r^({math.pi / alpha - 1:.3f}) towards the corner: it keeps growing "
-            f"as the mesh is refined, so its value here depends on the mesh. Away from the "
-            f"corner the peak is {peak_r:.4g} ({ratio_r:.3f} x the hand value). A root "
-            f"radius gives a finite peak."))
+            f"as the mesh is refined, so its value here depends on the mesh. The headline "
+            f"ratio uses the peak away from the corners, {peak_r:.4g} ({ratio:.3f} x the "
+            f"hand value); the corner peak is {ratio_raw:.3f} x. Model the real root radius "
+            f"(fillet) of the corner to get its finite peak."))
     na_tau = np.asarray(na.tau_fe)
     s = np.asarray(na.s)
     ends = np.zeros(len(s), dtype=bool)
@@ -292,8 +295,8 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     k_end = int(np.flatnonzero(ends)[np.argmax(na_tau[ends])])
     edge_ratio = float(na_tau[k_end] / na.tau_hand) if na.tau_hand > 0 else 0.0
     p_end = (float(na.x[k_end]), float(na.y[k_end]))
-    if edge_ratio > lim:
-        findings.append(Finding("edge-excess", p_end, edge_ratio,
+    if edge_ratio > lim and method != "thin-wall":  # a chord-formula finding only
+        findings.append(Finding("edge-excess", list(p_end), edge_ratio,
             f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
             f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
             f"the formula gives the average along the cut and assumes the stress uniform "
@@ -304,24 +307,24 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
                 default=0.0)
     near_fillet = _near(at_r, fillets, 2.0 * r_max + size)
     near_corner = _near(at_r, sharp, 3.0 * size)
-    if ratio_r > lim and (near_fillet or near_corner):
-        findings.append(Finding("junction-peak", (float(at_r[0]), float(at_r[1])), ratio_r,
+    if ratio > lim and (near_fillet or near_corner):
+        findings.append(Finding("junction-peak", [float(at_r[0]), float(at_r[1])], ratio,
             f"The peak {peak_r:.4g} is at a flange-web junction / re-entrant corner, "
-            f"{ratio_r:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
+            f"{ratio:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
             f"over the cut and misses the concentration where the section changes width."))
-    elif ratio_r > lim and not (edge_ratio > lim and abs((at_r - sol.centroid) @ n) < size):
-        findings.append(Finding("method-excess", (float(at_r[0]), float(at_r[1])), ratio_r,
-            f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio_r:.3f} x "
+    elif ratio > lim and not (edge_ratio > lim and abs((at_r - sol.centroid) @ n) < size):
+        findings.append(Finding("method-excess", [float(at_r[0]), float(at_r[1])], ratio,
+            f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio:.3f} x "
             f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
             f"over the whole section), and the elastic stress here is not uniform across "
             f"the cuts through this point."))
     user_ratio = peak_r / hand_value if hand_value else None
     if user_ratio is not None and user_ratio > lim:
-        findings.append(Finding("hand-value", (float(at_r[0]), float(at_r[1])), user_ratio,
+        findings.append(Finding("hand-value", [float(at_r[0]), float(at_r[1])], user_ratio,
             f"The FE peak {peak_r:.4g} exceeds your hand value {hand_value:.4g} by "
             f"{100 * (user_ratio - 1):.1f} %."))
-    unsafe = ratio_r > lim or (user_ratio is not None and user_ratio > lim)
-    governs = singular and (ratio > lim or (hand_value is not None and peak > lim * hand_value))
+    unsafe = ratio > lim or (user_ratio is not None and user_ratio > lim)
+    governs = singular and (ratio_raw > lim or (hand_value is not None and peak > lim * hand_value))
     verdict = "unsafe" if unsafe else ("inconclusive" if governs else "holds")
 
     fe_res = sol.resultant @ np.array(Vs)
@@ -331,11 +334,14 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     timings = {"mesh": smesh.seconds, "assemble": sol.timings["assemble"],
                "solve": sol.timings["solve"], "post": sol.timings["post"] + t_post}
     return SectionCheck(
-        shape=shape, method=method, tolerance=tolerance, V=(Vx, Vy), V_solved=Vs,
+        shape=shape, method=method, method_reason=choice.reason, tolerance=tolerance,
+        V=(Vx, Vy), V_solved=Vs,
         A=sol.A, I={"xx": sol.Ixx, "yy": sol.Iyy, "xy": sol.Ixy}, centroid=sol.centroid,
         shear_centre=sol.shear_centre, shear_centre_nu=sol.shear_centre_nu, J=sol.J, G=G,
         tau_max_fe=peak, tau_at=(float(at[0]), float(at[1])), tau_max_regular=peak_r,
-        tau_max_hand=tau_sf, tau_avg_hand=tau_avg, hand=hand, ratio=ratio,
+        tau_at_regular=(float(at_r[0]), float(at_r[1])), tau_max_hand=tau_sf,
+        tau_chord_hand=tau_chord, tau_avg_hand=tau_avg, hand=hand, ratio=ratio,
+        ratio_raw=ratio_raw,
         hand_value=hand_value,
         hand_properties={"A": hp.A, "cx": hp.cx, "cy": hp.cy, "Ixx": hp.Ixx, "Iyy": hp.Iyy,
                          "Ixy": hp.Ixy, "I1": hp.I1, "I2": hp.I2, "angle": hp.angle},
@@ -343,6 +349,8 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         torsion_stress_per_torque=float(np.linalg.norm(sol.tau_torsion, axis=2).max() / sol.J),
         resultant={"applied": [float(v) for v in Vs], "fe": [float(v) for v in fe_res],
                    "relative_error": rel},
-        mesh=MeshInfo(smesh.nodes, smesh.elements, sol.dofs, float(size), order),
+        mesh=MeshInfo(smesh.nodes, smesh.elements, sol.dofs, float(size), order,
+                      curved=order == 2 and any(r.circle is not None or bool(r.radii.any())
+                                                for r in geom.rings)),
         timings=timings, verdict=verdict, findings=tuple(findings), solution=sol,
     )

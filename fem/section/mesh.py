@@ -8,7 +8,8 @@ its mid-edge nodes on the true curve.  Frames follow :mod:`classical.shapes`
 on x = 0; tee with the web tip on y = 0 and the flange on top; angle with its outer
 corner at the origin), so FE and hand results share coordinates.
 
-Sharp re-entrant corners (material angle above 180 degrees) get a ``Distance`` +
+Sharp re-entrant corners (material angle above ``fem.case.outline.CORNER_ANGLE`` = 190
+degrees; the vertices of a faceted arc are not corners) get a ``Distance`` +
 ``Threshold`` background field: there the flexure and torsion stresses are singular
 (about r^(-1/3) at a 270-degree corner) and the finer mesh keeps the error local.
 Fillet arcs get a field of their own (about five elements per quarter circle).
@@ -29,6 +30,7 @@ import numpy as np
 from skfem import MeshTri1, MeshTri2
 
 from classical.sections import Outline, section_outline
+from fem.case.outline import is_sharp_corner
 from fem.gmsh_session import gmsh_session, set_background
 
 __all__ = [
@@ -66,13 +68,13 @@ class Ring:
         return np.pi - np.arctan2(cross, dot)
 
     def reentrant(self) -> np.ndarray:
-        """Boolean per vertex: material angle above 180 degrees (right turn)."""
+        """Boolean per vertex: a re-entrant corner, material angle above
+        :data:`fem.case.outline.CORNER_ANGLE` (190 degrees).  The vertices of a faceted
+        arc turn by a degree or so and are not corners (the constant gives the reasoning)."""
         if self.circle is not None:
             return np.zeros(0, dtype=bool)
-        p = self.points
-        d_in, d_out = p - np.roll(p, 1, axis=0), np.roll(p, -1, axis=0) - p
-        cross = d_in[:, 0] * d_out[:, 1] - d_in[:, 1] * d_out[:, 0]
-        return cross < -1e-12 * np.max(np.abs(p)) ** 2
+        return np.array([is_sharp_corner(math.degrees(a)) for a in self.material_angles()],
+                        dtype=bool)
 
 
 def _polygon_ring(points: Sequence[Sequence[float]], radii: Sequence[float] | None = None,
