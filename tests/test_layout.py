@@ -139,3 +139,16 @@ def test_the_checker_catches_an_upward_import(tmp_path):
     assert floor_of("fem.report.note") > floor_of("fem.member.check")
     assert floor_of("fem.member.check")[0] == floor_of("fem.section.check")[0]
     assert floor_of("fem.results")[0] == 0 and floor_of("fem")[0] == PACKAGE_FLOOR
+
+
+def test_the_installed_package_holds_every_sub_package():
+    """A plain (non-editable) install must carry every folder of fem/: the package list in
+    pyproject.toml is found by pattern, and each package folder matches it."""
+    import fnmatch
+    import tomllib
+
+    conf = tomllib.loads((FEM.parent / "pyproject.toml").read_text(encoding="utf-8"))
+    include = conf["tool"]["setuptools"]["packages"]["find"]["include"]
+    for init in FEM.rglob("__init__.py"):
+        name = module_name(init)
+        assert any(fnmatch.fnmatch(name, pat) for pat in include), f"{name} not installed"
