@@ -366,6 +366,33 @@ def _closed_loop(points: Sequence[Sequence[float]], t: float) -> tuple[WallSegme
     return tuple(WallSegment(pts[k], pts[(k + 1) % len(pts)], t) for k in range(len(pts)))
 
 
+def _closed_q(seg: WallSegment, c: np.ndarray, a: float, b: float, q_start: float,
+              s: np.ndarray) -> np.ndarray:
+    """q_open along one segment of a cut-open cell: q_start - t (a Qx + b Qy) of the wall
+    from the segment's start to s (quadratic in s)."""
+    d, r0 = seg.direction, np.array(seg.start) - c
+    return q_start - seg.t * (a * (r0[1] * s + d[1] * s**2 / 2) + b * (r0[0] * s + d[0] * s**2 / 2))
+
+
+def _closed_cell(points: Sequence[Sequence[float]], t: float, Vy: float, Vx: float
+                 ) -> tuple[tuple[WallSegment, ...], np.ndarray, float, float, list[float], float]:
+    """The cell's segments, centroid, bending-rate coefficients a, b, the open flow at each
+    segment start, and the closed-cell correction q0 (q = q_open + q0)."""
+    segs = _closed_loop(points, t)
+    p = thinwall_properties(segs)
+    c = np.array([p.cx, p.cy])
+    a, b = _coefficients(p, Vy, Vx)
+    starts, q_start, total, perimeter = [], 0.0, 0.0, 0.0
+    for seg in segs:
+        L = seg.length
+        q3 = _closed_q(seg, c, a, b, q_start, np.array([0.0, L / 2, L]))
+        starts.append(q_start)
+        total += L / 6 * float(q3[0] + 4 * q3[1] + q3[2])   # Simpson: exact for quadratic q
+        perimeter += L
+        q_start = float(q3[2])
+    return segs, c, a, b, starts, -total / perimeter
+
+
 def closed_cell_shear_flow(points: Sequence[Sequence[float]], t: float, Vy: float,
                            Vx: float = 0.0, samples: int = 5
                            ) -> tuple[tuple[WallSegment, ...], np.ndarray, np.ndarray]:
@@ -386,26 +413,11 @@ def closed_cell_shear_flow(points: Sequence[Sequence[float]], t: float, Vy: floa
         The loop's segments; ``s`` (n_seg, samples) distances from each start; ``q`` the
         flow there.
     """
-    segs = _closed_loop(points, t)
-    p = thinwall_properties(segs)
-    c = np.array([p.cx, p.cy])
-    a, b = _coefficients(p, Vy, Vx)
+    segs, c, a, b, starts, q0 = _closed_cell(points, t, Vy, Vx)
     s = np.array([np.linspace(0.0, seg.length, samples) for seg in segs])
-    q = np.zeros_like(s)
-    q_start, total, perimeter = 0.0, 0.0, 0.0
-    for k, seg in enumerate(segs):
-        d, r0 = seg.direction, np.array(seg.start) - c
-        L = seg.length
-
-        def q_open(x: np.ndarray, q0: float = q_start, d=d, r0=r0) -> np.ndarray:
-            return q0 - t * (a * (r0[1] * x + d[1] * x**2 / 2) + b * (r0[0] * x + d[0] * x**2 / 2))
-
-        q[k] = q_open(s[k])
-        total += L / 6 * float(q_open(np.array(0.0)) + 4 * q_open(np.array(L / 2))
-                               + q_open(np.array(L)))
-        perimeter += L
-        q_start = float(q_open(np.array(L)))
-    return segs, s, q - total / perimeter
+    q = np.array([_closed_q(seg, c, a, b, qs, s[k])
+                  for k, (seg, qs) in enumerate(zip(segs, starts, strict=True))])
+    return segs, s, q + q0
 
 
 def closed_cell_stress_peak(points: Sequence[Sequence[float]], t: float, Vy: float,
@@ -413,18 +425,12 @@ def closed_cell_stress_peak(points: Sequence[Sequence[float]], t: float, Vy: flo
     """Peak wall shear stress max |q|/t of a closed single cell (:func:`closed_cell_shear_flow`;
     the maximum of each quadratic piece is at an end or its stationary point, as in
     :func:`wall_stress_peak`).  Source: Megson, 4th ed., Ch. 17 (from memory)."""
-    segs = _closed_loop(points, t)
-    p = thinwall_properties(segs)
-    c = np.array([p.cx, p.cy])
-    a, b = _coefficients(p, Vy, Vx)
-    _, s5, q5 = closed_cell_shear_flow(points, t, Vy, Vx, samples=3)
+    segs, c, a, b, starts, q0 = _closed_cell(points, t, Vy, Vx)
     best = WallStressPeak(0.0, 0, 0.0, segs[0].start)
-    for k, seg in enumerate(segs):
-        d, r0, L = seg.direction, np.array(seg.start) - c, seg.length
-        ss = _quadratic_candidates(L, d, r0, a, b)
-        # q on segment k is the quadratic through its three samples (ends and middle)
-        qq = np.polyval(np.polyfit(s5[k], q5[k], 2), ss)
-        tau = np.abs(qq) / t
+    for k, (seg, qs) in enumerate(zip(segs, starts, strict=True)):
+        d = seg.direction
+        ss = _quadratic_candidates(seg.length, d, np.array(seg.start) - c, a, b)
+        tau = np.abs(_closed_q(seg, c, a, b, qs, ss) + q0) / t
         j = int(np.argmax(tau))
         if tau[j] > best.tau:
             best = WallStressPeak(float(tau[j]), k, float(ss[j]),

@@ -21,7 +21,7 @@ import numpy as np
 __all__ = [
     "MeshInfo", "Equilibrium", "Profile", "CutResult", "Peak", "ConvergenceResult",
     "Finding", "Timings", "EnvelopePoint", "Envelope", "Result", "write_json", "to_jsonable",
-    "CAUTION", "atomic_write",
+    "CAUTION", "atomic_write", "significant",
 ]
 
 CAUTION = ("This is a verification aid. Design remains subject to the governing code and the "
@@ -184,6 +184,11 @@ class Result:
         if self.kind == "section" or self.envelope is None:
             d.pop("envelope", None)  # no key rather than null: outputs stay as they were
         return d
+
+
+def significant(v: float, digits: int = 6) -> float:
+    """`v` kept to `digits` significant figures: how ratios and stations are reported."""
+    return float(f"{v:.{digits}g}")
 
 
 def to_jsonable(obj: Any) -> Any:

@@ -47,3 +47,38 @@ levels = {levels}
 [check]
 cuts = {cuts}
 """
+
+
+def plate_cantilever(size_mm: float, levels: int, distribution: str = "uniform",
+                     length_unit: str = "mm", force_unit: str = "N", mm: float = 1.0,
+                     newton: float = 1.0) -> str:
+    """A 200 x 100 x 10 mm plate cantilever, clamped left, 20 kN down on its right edge
+    spread by `distribution`, written in the given units (`mm` and `newton`: that length
+    and force unit's size in mm and N)."""
+    mpa = newton / mm**2                       # one stress unit in N/mm2
+    return f"""
+schema = 1
+name = "plate-cantilever"
+kind = "beam"
+[units]
+length = "{length_unit}"
+force = "{force_unit}"
+[material]
+E = {200000.0 / mpa!r}
+nu = 0.3
+thickness = {10.0 / mm!r}
+[geometry]
+shape = "rectangle"
+length = {200.0 / mm!r}
+depth = {100.0 / mm!r}
+[[supports]]
+edge = "left"
+fix = "xy"
+[[loads]]
+edge = "right"
+force = [0.0, {-20000.0 / newton!r}]
+distribution = "{distribution}"
+[mesh]
+size = {size_mm / mm!r}
+levels = {levels}
+"""

@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import replace
 
 import pytest
-from conftest import ROOT
+from conftest import ROOT, plate_cantilever
 
 from fem.api import check
 from fem.case import load_case, parse_case
@@ -58,39 +58,6 @@ adaptive = true
 
 # ----------------------------------------------------------------- scale-free verdicts
 
-def _plate_cantilever(length_unit: str, force_unit: str, mm: float, newton: float,
-                      size_mm: float, levels: int) -> str:
-    """A 200 x 100 x 10 mm plate cantilever, 20 kN parabolic end shear, clamped left,
-    written in the given units (`mm` and `newton`: that unit's size in mm and N)."""
-    mpa = newton / mm**2                       # one stress unit in N/mm2
-    return f"""
-schema = 1
-name = "plate-cantilever"
-kind = "beam"
-[units]
-length = "{length_unit}"
-force = "{force_unit}"
-[material]
-E = {200000.0 / mpa!r}
-nu = 0.3
-thickness = {10.0 / mm!r}
-[geometry]
-shape = "rectangle"
-length = {200.0 / mm!r}
-depth = {100.0 / mm!r}
-[[supports]]
-edge = "left"
-fix = "xy"
-[[loads]]
-edge = "right"
-force = [0.0, {-20000.0 / newton!r}]
-distribution = "parabolic"
-[mesh]
-size = {size_mm / mm!r}
-levels = {levels}
-"""
-
-
 UNITS = {"mm/N": ("mm", "N", 1.0, 1.0), "m/kN": ("m", "kN", 1000.0, 1000.0),
          "in/lbf": ("in", "lbf", 25.4, 4.4482216152605)}
 
@@ -100,7 +67,7 @@ def unit_runs():
     from fem.api import check
     from fem.case import parse_case
 
-    return {k: check(parse_case(_plate_cantilever(*u, size_mm=25.0, levels=3), f"{k}.toml"))
+    return {k: check(parse_case(plate_cantilever(25.0, 3, "parabolic", *u), f"{k}.toml"))
             for k, u in UNITS.items()}
 
 
@@ -126,7 +93,7 @@ def test_a_coarse_three_level_study_is_inconclusive_with_the_reason(tmp_path):
     from fem.api import check
     from fem.case import parse_case
 
-    res = check(parse_case(_plate_cantilever("mm", "N", 1.0, 1.0, size_mm=100.0, levels=3),
+    res = check(parse_case(plate_cantilever(100.0, 3, "parabolic"),
                            "coarse.toml")).result
     nc = [f for f in res.findings if f.kind == "not-converged"]
     if res.convergence.converged:
@@ -144,8 +111,7 @@ def test_an_excess_between_the_cuts_is_found_by_the_envelope():
     from fem.api import check
     from fem.case import parse_case
 
-    text = _plate_cantilever("mm", "N", 1.0, 1.0, size_mm=20.0, levels=3).replace(
-        'distribution = "parabolic"', 'distribution = "uniform"')
+    text = plate_cantilever(20.0, 3, "uniform")
     res = check(parse_case(text, "plate.toml")).result
     w = res.envelope.worst
     assert res.verdict == "unsafe"

@@ -6,7 +6,7 @@ import json
 
 import numpy as np
 import pytest
-from conftest import CANTILEVER
+from conftest import CANTILEVER, plate_cantilever
 
 from fem.case import parse_case
 from fem.member.envelope import element_sizes, envelope_stations, member_envelope
@@ -14,28 +14,7 @@ from fem.member.level import ExcludedZone, excluded_zones, run_level
 from fem.member.recovery import PointLocator
 from fem.results import Result, Timings, write_json
 
-STUBBY = """
-schema = 1
-name = "stubby-plate"
-kind = "beam"
-[material]
-E = 200000.0
-nu = 0.3
-thickness = 10.0
-[geometry]
-shape = "rectangle"
-length = 200.0
-depth = 100.0
-[[supports]]
-edge = "left"
-fix = "xy"
-[[loads]]
-edge = "right"
-force = [0.0, -20000.0]
-[mesh]
-size = 5.0
-levels = 1
-"""
+STUBBY = plate_cantilever(5.0, 1)   # 20 kN spread uniformly on the free edge
 
 
 @pytest.fixture(scope="module")

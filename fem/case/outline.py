@@ -9,6 +9,7 @@ with true arcs.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
@@ -138,7 +139,14 @@ def cutout_polygon(c: Cutout, outline: Polygon) -> Polygon:
     return Polygon(pts)
 
 
+@functools.lru_cache(maxsize=64)
 def domain_polygon(g: BeamGeometry) -> Polygon:
+    """The material of the member: the outline less its holes and cut-outs.
+
+    Cached per geometry (a frozen, hashable dataclass; shapely geometries are immutable),
+    so the case checks, every mesh level, the hand side, the findings and the envelope
+    share one polygon instead of rebuilding it at each call.
+    """
     outline = outline_polygon(g)
     removed = [Point(h.center).buffer(h.radius, quad_segs=ARC_SEGMENTS) for h in g.holes]
     removed += [cutout_polygon(c, outline) for c in g.cutouts]

@@ -24,7 +24,8 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from shapely.geometry import LineString, Point, Polygon
+import shapely
+from shapely.geometry import Point, Polygon
 
 from classical.sections import section_outline
 from fem.case.model import BeamGeometry, Case, SectionGeometry
@@ -148,12 +149,12 @@ def thinnest_depth(case: Case) -> float:
     y0, y1 = dom.bounds[1] - 1.0, dom.bounds[3] + 1.0
     if x1 - x0 <= 0.0:
         return dom.bounds[3] - dom.bounds[1]
-    depths = []
-    for x in np.linspace(x0, x1, DEPTH_SAMPLES + 2)[1:-1]:
-        d = dom.intersection(LineString([(x, y0), (x, y1)])).length
-        if d > 0.0:
-            depths.append(d)
-    return min(depths) if depths else dom.bounds[3] - dom.bounds[1]
+    xs = np.linspace(x0, x1, DEPTH_SAMPLES + 2)[1:-1]
+    lines = shapely.linestrings(np.stack([np.column_stack([xs, np.full_like(xs, y0)]),
+                                          np.column_stack([xs, np.full_like(xs, y1)])], axis=1))
+    depths = shapely.length(shapely.intersection(dom, lines))
+    depths = depths[depths > 0.0]
+    return float(depths.min()) if depths.size else dom.bounds[3] - dom.bounds[1]
 
 
 def check_element_size(case: Case) -> None:

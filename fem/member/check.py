@@ -81,15 +81,16 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     cuts, peak = cut_results(fin), peak_result(fin)
     zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
     findings = beam_findings(case, fin, cuts, peak, zones)
-    envelope = member_envelope(case, fin, zones + _corner_zones(case))
+    depth = _depth(case)
+    corners = reentrant_corners(domain_polygon(case.geometry))  # type: ignore[arg-type]  # beam case: BeamGeometry
+    envelope = member_envelope(case, fin, zones + _corner_zones(corners, depth))
     findings += _envelope_findings(case, envelope, cuts)
     study = _study_of(case)
     conc = concentrations(case, levels, zones, study)
     findings += concentration_findings(case, conc)
     quantities = _quantities(levels, cuts, study)
     quantities.update({c.feature.key: c.study for c in conc if c.study})
-    depth = _depth(case)
-    singular = _singular_corners(case, levels, depth)
+    singular = _singular_corners(corners, levels, depth)
     for s in singular:
         quantities[f"corner ({s.corner.at[0]:g}, {s.corner.at[1]:g}) von_mises"] = study(
             [lv.size for lv in levels], s.values)
@@ -137,13 +138,13 @@ def _run_levels(case: Case, progress: Progress | Callable[[str], None] | None) -
     return levels
 
 
-def _corner_zones(case: Case) -> list[ExcludedZone]:
+def _corner_zones(corners: list[Corner], depth: float) -> list[ExcludedZone]:
     """Discs around sharp re-entrant corners, left out of the envelope: there the elastic
     stress has no finite value, and the corner is judged by its own (singular or
     concentration) finding instead."""
-    r = CORNER_RADIUS * _depth(case)
+    r = CORNER_RADIUS * depth
     return [ExcludedZone(at=c.at, radius=r, why=f"the sharp {c.angle:.0f} degree corner")
-            for c in reentrant_corners(domain_polygon(case.geometry))]  # type: ignore[arg-type]
+            for c in corners]
 
 
 def _envelope_findings(case: Case, env: Envelope, cuts: list[CutResult]) -> list[Finding]:
@@ -213,9 +214,9 @@ def _corner_peaks(level: Level, corners: list[Corner], radius: float) -> list[fl
     return out
 
 
-def _singular_corners(case: Case, levels: list[Level], depth: float) -> list[_Singular]:
+def _singular_corners(corners: list[Corner], levels: list[Level], depth: float
+                      ) -> list[_Singular]:
     """Sharp re-entrant corners whose peak grows with every refinement (needs 3 levels)."""
-    corners = reentrant_corners(domain_polygon(case.geometry))  # type: ignore[arg-type]
     if len(levels) < 3 or not corners:
         return []
     sizes = [lv.size for lv in levels]

@@ -1,10 +1,8 @@
-"""FE against hand at each cut, findings in plain words, and the verdict.
+"""FE against hand at each cut, and the findings in plain words.
 
-Rules (the contract's): the verdict is ``unsafe`` when the FE shear exceeds the hand value
-of the chosen method by more than the tolerance at any cut (or exceeds the user's own
-hand value); ``inconclusive`` when the governing quantity has not converged or a singular
-point governs; ``holds`` otherwise. Bearing and combined-stress findings inform; they do
-not change the verdict on the shear check.
+The findings feed the one verdict rule (`fem.verdict.decide`): those whose kind is in
+`fem.verdict.DECIDING_KINDS` decide it; bearing and combined-stress findings inform and
+do not change the verdict on the shear check.
 
 Finding kinds at a cut name the cause: ``concentration`` when the nearest station is a hole
 or a cut-out (the feature concentrates the shear), ``short-beam`` when it is a load, a
@@ -22,7 +20,7 @@ from fem.case.outline import domain_polygon
 from fem.member.hand import total_load
 from fem.member.level import ExcludedZone, Level, nearest_station
 from fem.member.recovery import von_mises
-from fem.results import CutResult, Finding, Peak, Profile
+from fem.results import CutResult, Finding, Peak, Profile, significant
 
 __all__ = ["cut_results", "peak_result", "beam_findings", "stations",
            "DIRECT_PLANES", "FEATURE_STATIONS"]
@@ -31,10 +29,6 @@ __all__ = ["cut_results", "peak_result", "beam_findings", "stations",
 DIRECT_PLANES = {"single-shear": 1, "double-shear": 2}
 #: station names of geometric features whose excess is a concentration, not a short beam
 FEATURE_STATIONS = ("hole ", "cut-out ")
-
-
-def _r(v: float, n: int = 6) -> float:
-    return float(f"{v:.{n}g}")
 
 
 def cut_results(level: Level) -> list[CutResult]:
@@ -118,7 +112,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
             why = _why(name, dist, depth, L) if near else (
                 "the stress distribution over the cut departs from the hand method's "
                 "assumption")
-            out.append(Finding(kind=kind, at=[c.x, c.y_at_tau_max_fe], ratio=_r(c.ratio),
+            out.append(Finding(kind=kind, at=[c.x, c.y_at_tau_max_fe], ratio=significant(c.ratio),
                                message=(f"At x = {c.x:g} {L} the FE shear stress peaks at "
                                         f"{c.tau_max_fe:.4g} {S} (y = {c.y_at_tau_max_fe:.4g} "
                                         f"{L}), {100 * (c.ratio - 1):.1f} % above the {method} "
@@ -126,7 +120,8 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
     out += _direct_shear(case, cuts)
     if worst_vm is not None and worst_vm[0] > 1 + tol:
         rv, c = worst_vm
-        out.append(Finding(kind="combined-stress", at=[c.x, c.y_at_tau_max_fe], ratio=_r(rv),
+        out.append(Finding(kind="combined-stress", at=[c.x, c.y_at_tau_max_fe],
+                           ratio=significant(rv),
                            message=(f"At x = {c.x:g} {L} the FE von Mises stress reaches "
                                     f"{c.von_mises_max_fe:.4g} {S}, {100 * (rv - 1):.1f} % above "
                                     f"the hand combination of σ = N/A + M y/I and VQ/(Ib) "
@@ -136,7 +131,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
     ys = case.material.yield_stress
     if ys and peak.von_mises_max > ys:
         out.append(Finding(kind="combined-stress", at=peak.von_mises_at,
-                           ratio=_r(peak.von_mises_max / ys),
+                           ratio=significant(peak.von_mises_max / ys),
                            message=(f"The FE von Mises peak {peak.von_mises_max:.4g} {S} at "
                                     f"({peak.von_mises_at[0]:.4g}, {peak.von_mises_at[1]:.4g}) "
                                     f"{L} exceeds the yield stress {ys:g} {S} (utilisation "
@@ -144,7 +139,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
                                     "yield overstate the stress.")))
     hv = case.check.hand_value
     if hv is not None and peak.tau_max > (1 + tol) * hv:
-        out.append(Finding(kind="hand-value", at=peak.tau_at, ratio=_r(peak.tau_max / hv),
+        out.append(Finding(kind="hand-value", at=peak.tau_at, ratio=significant(peak.tau_max / hv),
                            message=(f"Your hand value {hv:g} {S} is exceeded: the FE shear "
                                     f"stress peaks at {peak.tau_max:.4g} {S} at "
                                     f"({peak.tau_at[0]:.4g}, {peak.tau_at[1]:.4g}) {L}, "
@@ -170,7 +165,7 @@ def _direct_shear(case: Case, cuts: list[CutResult]) -> list[Finding]:
     force = total_load(case)
     formula, split = ("F/A", f"{c.A:.4g} {L}²") if n == 1 else (
         f"F/({n} A)", f"({n} × {c.A:.4g} {L}²)")
-    return [Finding(kind="method-excess", at=[c.x, c.y_at_tau_max_fe], ratio=_r(c.ratio),
+    return [Finding(kind="method-excess", at=[c.x, c.y_at_tau_max_fe], ratio=significant(c.ratio),
                     message=(f"At x = {c.x:g} {L} the FE shear stress peaks at "
                              f"{c.tau_max_fe:.4g} {S} (y = {c.y_at_tau_max_fe:.4g} {L}), "
                              f"{c.ratio:.3g} times the {words}-shear value {formula} = "
@@ -221,7 +216,8 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
         if peak > governing:
             extra = (f" (the load over the patch gives F/(w t) = {nominal:.4g} {S})"
                      if nominal else "")
-            out.append(Finding(kind="bearing", at=at, ratio=_r(peak / max(governing, 1e-300)),
+            out.append(Finding(kind="bearing", at=at,
+                               ratio=significant(peak / max(governing, 1e-300)),
                                message=(f"Under {p.name} ({xs[0]:g} to {xs[-1]:g} {L}) the "
                                         f"bearing stress σyy reaches {peak:.4g} {S}{extra},"
                                         f" more than the governing hand shear "

@@ -80,7 +80,7 @@ from fem.convergence import ConvergenceInputError, growth_exponent, williams_lam
 from fem.member.hand import CutHand, hand_at_cut, member_model
 from fem.member.level import ExcludedZone, Level
 from fem.member.recovery import PointLocator, von_mises
-from fem.results import Finding
+from fem.results import Finding, significant
 
 __all__ = [
     "CORNER_SAMPLE_RATIO", "KIRSCH_CLEARANCE", "KIRSCH_SHEAR_KT", "KIRSCH_SHEAR_TAU_EDGE",
@@ -524,7 +524,7 @@ def concentration_findings(case: Case, items: list[Concentration]) -> list[Findi
                      f"{_pt(c.tau_at)} {L}, {c.ratio:.3g} times the {method} value "
                      f"{_fmt(c.tau_nominal or 0.0)} {S}: {verdict}.")
         out.append(Finding(kind="concentration", at=list(c.at),
-                           ratio=None if c.ratio is None else float(f"{c.ratio:.6g}"),
+                           ratio=None if c.ratio is None else significant(c.ratio),
                            message=text))
     return out
 

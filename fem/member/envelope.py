@@ -32,7 +32,7 @@ from fem.case.outline import cut_strips, domain_polygon
 from fem.member.hand import hand_at_cut, member_model
 from fem.member.level import ExcludedZone, Level, excluded_zones
 from fem.member.recovery import StressField
-from fem.results import Envelope, EnvelopePoint
+from fem.results import Envelope, EnvelopePoint, significant
 
 __all__ = ["member_envelope", "envelope_stations", "element_sizes", "section_peaks",
            "RATIO_FLOOR", "END_INSET"]
@@ -52,7 +52,7 @@ DIGITS = 6
 
 
 def _r(v: float) -> float:
-    return float(f"{v:.{DIGITS}g}")
+    return significant(v, DIGITS)
 
 
 def element_sizes(level: Level) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
