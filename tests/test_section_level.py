@@ -232,3 +232,23 @@ def test_sharp_i_headline_ratio_is_the_regular_one():
     sing = [f for f in s.findings if f.kind == "singular"]
     assert len(sing) == 1 and "root radius" in sing[0].message
     assert "headline" in sing[0].message
+
+
+@pytest.mark.parametrize("shape, params, method, V", [
+    ("rectangle", dict(width=40.0, depth=10.0), "shear-formula", (0.0, 1000.0)),
+    ("rectangle", dict(width=10.0, depth=40.0), "average", (0.0, 1000.0)),
+    ("tee", dict(depth=100.0, flange_width=100.0, flange_thickness=6.0, web_thickness=5.0,
+                 root_radius=4.0), "auto", (1e4, 0.0)),
+    ("angle", dict(leg_x=80.0, leg_y=80.0, thickness=2.0), "auto", (0.0, 1e4)),
+])
+def test_an_unsafe_level_carries_a_deciding_finding(shape, params, method, V):
+    """Whenever one mesh level compares unsafe, a finding of a deciding kind says so, so the
+    study's verdict (`fem.verdict.decide`, which reads only findings) can agree with it;
+    the excess is 1.988 x (wide rectangle, edge), 1.5 x V/A (deep rectangle, average;
+    Timoshenko & Goodier 3rd ed. §124 and the shear formula), a root peak (tee)."""
+    from fem.verdict import is_excess
+
+    r = check_section(shape, params, E, 0.3, *V, size=2.0, method=method)
+    if r.verdict == "unsafe":
+        assert any(is_excess(f, r.tolerance) for f in r.findings), r.findings
+    assert shape == "angle" or r.verdict == "unsafe"

@@ -75,8 +75,9 @@ def check_section_case(case: Case,
     study = _study(case, levels, sizes)
     findings = list(fin.findings) + _extra_findings(fin, levels, study)
     tol = case.check.tolerance
+    # the raw peak (at the corner), not the headline regular one, decides whether it governs
     singular_governs = (any(f.kind == "singular" for f in findings)
-                        and fin.ratio > 1.0 + tol)
+                        and fin.ratio_raw > 1.0 + tol)
     verdict = decide(findings, tolerance=tol, levels=len(levels), converged=study.converged,
                      singular_governs=singular_governs)
     return SectionRun(result=_result(case, levels, sizes, study, findings, verdict.word),

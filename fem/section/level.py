@@ -295,7 +295,8 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     k_end = int(np.flatnonzero(ends)[np.argmax(na_tau[ends])])
     edge_ratio = float(na_tau[k_end] / na.tau_hand) if na.tau_hand > 0 else 0.0
     p_end = (float(na.x[k_end]), float(na.y[k_end]))
-    if edge_ratio > lim and method != "thin-wall":  # a chord-formula finding only
+    edge_flagged = edge_ratio > lim and method != "thin-wall"  # a chord-formula finding only
+    if edge_flagged:
         findings.append(Finding("edge-excess", list(p_end), edge_ratio,
             f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
             f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
@@ -312,7 +313,7 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
             f"The peak {peak_r:.4g} is at a flange-web junction / re-entrant corner, "
             f"{ratio:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
             f"over the cut and misses the concentration where the section changes width."))
-    elif ratio > lim and not (edge_ratio > lim and abs((at_r - sol.centroid) @ n) < size):
+    elif ratio > lim and not (edge_flagged and abs((at_r - sol.centroid) @ n) < size):
         findings.append(Finding("method-excess", [float(at_r[0]), float(at_r[1])], ratio,
             f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio:.3f} x "
             f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
