@@ -208,6 +208,6 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
             reactions[j] = (0.0, 0.0, 0.0)
         seen.add(i)
     determinate = len(fixed) == 3
-    return BeamModel(supports=tuple(supports), reactions=tuple(reactions),  # type: ignore
+    return BeamModel(supports=tuple(supports), reactions=tuple(reactions),
                      points=tuple(points), lines=tuple(lines), axis_y=axis_y,
                      determinate=determinate)

@@ -180,5 +180,19 @@ class Case:
     file: str = "<case>"
     schema: int = SCHEMA
 
+    @property
+    def beam(self) -> BeamGeometry:
+        """The member's geometry, for code that only runs on beam cases."""
+        if not isinstance(self.geometry, BeamGeometry):
+            raise TypeError(f"{self.name}: a {self.kind} case has no member geometry")
+        return self.geometry
+
+    @property
+    def section(self) -> SectionGeometry:
+        """The cross-section's geometry, for code that only runs on section cases."""
+        if not isinstance(self.geometry, SectionGeometry):
+            raise TypeError(f"{self.name}: a {self.kind} case has no section geometry")
+        return self.geometry
+
     def with_mesh(self, **changes: Any) -> Case:
         return replace(self, mesh=replace(self.mesh, **changes))

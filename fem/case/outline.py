@@ -155,7 +155,7 @@ def domain_polygon(g: BeamGeometry) -> Polygon:
 
 
 def bounding_box(g: BeamGeometry) -> tuple[float, float, float, float]:
-    return tuple(outline_polygon(g).bounds)  # type: ignore[return-value]
+    return tuple(outline_polygon(g).bounds)
 
 
 def _tol(dom: Polygon) -> float:
@@ -207,7 +207,7 @@ def _onto_boundary(p: tuple[float, float], dom: Polygon, eps: float) -> tuple[fl
 
 def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygon) -> Patch:
     """Turn a placement into boundary stretches of the domain, or refuse it."""
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     tol = _tol(dom)
     file = case.file
     if where.hole is not None:
@@ -273,7 +273,7 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
                                 f"at {list(where.at)} (it is {L:g} long there)")
             a = tuple(float(v) for v in e0 + d * max(s0, 0.0) / L)
             b = tuple(float(v) for v in e0 + d * min(s1, L) / L)
-            return Patch(name=name, segments=((a, b),))  # type: ignore[arg-type]
+            return Patch(name=name, segments=((a, b),))
     raise CaseError(file, f"{key}.at", f"{list(where.at)} lies on a curved part of the outline;"
                                        " a patch needs a straight stretch")
 
@@ -330,7 +330,7 @@ def _on_one_edge(dom: Polygon, a, b, tol: float) -> bool:
 
 def patches(case: Case, dom: Polygon | None = None) -> tuple[list[Patch], list[Patch]]:
     """Resolved (supports, loads), named 'support-i' and 'load-j'."""
-    dom = dom if dom is not None else domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = dom if dom is not None else domain_polygon(case.beam)
     sup = [resolve_patch(s.where, f"support-{i}", s.key or f"supports.{i}", case, dom)
            for i, s in enumerate(case.supports)]
     lds = [resolve_patch(ld.where, f"load-{j}", ld.key or f"loads.{j}", case, dom)
@@ -410,7 +410,7 @@ def check_mechanism(case: Case, supports: list[Patch]) -> None:
     all_pts = xs + ys
     span = max(max(p[0] for p in all_pts) - min(p[0] for p in all_pts),
                max(p[1] for p in all_pts) - min(p[1] for p in all_pts), 0.0) if all_pts else 0.0
-    x0, y0, x1, y1 = outline_polygon(case.geometry).bounds  # type: ignore[arg-type]
+    x0, y0, x1, y1 = outline_polygon(case.beam).bounds
     tiny = 1e-9 * max(x1 - x0, y1 - y0, span)
     free = []
     if not xs:
@@ -431,7 +431,7 @@ def check_mechanism(case: Case, supports: list[Patch]) -> None:
 
 def validate_geometry(case: Case) -> None:
     """Geometric checks that need the outline; raise CaseError naming the key."""
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     f = case.file
     outline = outline_polygon(g)
     if not outline.is_valid or outline.area <= 0:

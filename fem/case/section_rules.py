@@ -95,7 +95,7 @@ def _polygon(p: dict[str, Any], file: str) -> None:
 
 def validate_section(case: Case) -> None:
     """Refuse section dimensions that make no shape; raise `CaseError` naming the key."""
-    g: SectionGeometry = case.geometry  # type: ignore[assignment]
+    g = case.section
     p, f = g.params, case.file
     if g.shape != "polygon":
         extent = section_extent(g)

@@ -28,7 +28,7 @@ import shapely
 from shapely.geometry import Point, Polygon
 
 from classical.sections import section_outline
-from fem.case.model import BeamGeometry, Case, SectionGeometry
+from fem.case.model import Case
 from fem.case.outline import domain_polygon, patches, reentrant_corners
 from fem.errors import CaseError
 
@@ -63,7 +63,7 @@ def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
 
 
 def _beam_triangles(case: Case, size: float) -> float:
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     dom = domain_polygon(g)
     depth = dom.bounds[3] - dom.bounds[1]
     scale = size / case.mesh.size
@@ -99,7 +99,7 @@ SECTION_GRADING = 0.3    # fem.section.mesh: size growth per unit distance from 
 
 
 def _section_triangles(case: Case, size: float) -> float:
-    g: SectionGeometry = case.geometry  # type: ignore[assignment]
+    g = case.section
     o = section_outline(g.shape, **g.params)
     poly = Polygon(o.outer, list(o.holes))
     per_h2 = poly.area + PERIMETER * poly.length * size
@@ -142,7 +142,7 @@ def thinnest_depth(case: Case) -> float:
     load (the load path), the total height of material met by the line; the smallest of
     them. A hole or cut-out reduces it; a tip beyond the last load does not count.
     """
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]  # beam case: BeamGeometry
+    dom = domain_polygon(case.beam)
     sup, lds = patches(case, dom)
     xs = [q[0] for p in sup + lds for q in p.ends]
     x0, x1 = min(xs), max(xs)

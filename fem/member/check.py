@@ -82,7 +82,7 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
     findings = beam_findings(case, fin, cuts, peak, zones)
     depth = _depth(case)
-    corners = reentrant_corners(domain_polygon(case.geometry))  # type: ignore[arg-type]  # beam case: BeamGeometry
+    corners = reentrant_corners(domain_polygon(case.beam))
     envelope = member_envelope(case, fin, zones + _corner_zones(corners, depth))
     findings += _envelope_findings(case, envelope, cuts)
     study = _study_of(case)
@@ -200,7 +200,7 @@ def _quantities(levels: list[Level], cuts: list[CutResult],
 
 
 def _depth(case: Case) -> float:
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]  # beam case: BeamGeometry
+    dom = domain_polygon(case.beam)
     return dom.bounds[3] - dom.bounds[1]
 
 

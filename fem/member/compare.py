@@ -64,7 +64,7 @@ def peak_result(level: Level) -> Peak:
 
 def stations(case: Case, level: Level) -> list[tuple[str, float, float]]:
     """Named x-extents of loads, supports and changes of section."""
-    g = case.geometry
+    g = case.beam
     out = []
     for p in level.mm.supports + level.mm.loads:
         kind = "support" if p.name.startswith("support") else "load"
@@ -90,7 +90,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
     u = case.units
     L, S = u.length, u.stress
     tol = case.check.tolerance
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     depth = dom.bounds[3] - dom.bounds[1]
     st = stations(case, level)
     method = case.check.method
@@ -193,7 +193,7 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
     f = level.field
     S, L = case.units.stress, case.units.length
     governing = max((c.tau_max_hand for c in cuts), default=0.0)
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     depth = dom.bounds[3] - dom.bounds[1]  # the band under a patch: at most a tenth of it
     patches = list(zip(level.mm.supports, case.supports, strict=True))
     patches += list(zip(level.mm.loads, case.loads, strict=True))

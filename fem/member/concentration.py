@@ -205,7 +205,7 @@ def _net_x(dom, g: BeamGeometry, x: float, scale: float) -> float:
 
 def features(case: Case) -> list[Feature]:
     """Holes, fillets of cut-outs and sharp re-entrant corners of a beam-kind case."""
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     dom = domain_polygon(g)
     x0, y0, x1, y1 = dom.bounds
     depth = y1 - y0
@@ -287,10 +287,10 @@ def _hand(case: Case, level: Level, x: float, y: np.ndarray,
           geometry: BeamGeometry | None = None) -> CutHand | None:
     """The hand side at x, as `fem.member.level.run_level` builds it (optionally on another outline,
     e.g. the gross section with a hole left out)."""
-    g = geometry or case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = geometry or case.beam
+    dom = domain_polygon(g)
     t = case.material.thickness
-    strips = cut_strips(g, x, t, dom)  # type: ignore[arg-type]
+    strips = cut_strips(g, x, t, dom)
     if not strips:
         return None
     model = level.model or member_model(case, level.mm.supports, level.mm.loads,
@@ -302,7 +302,7 @@ def _kirsch(case: Case, level: Level, f: Feature, dom, S: str) -> FormulaValue |
     """Kirsch's extremes under the gross-section hand stresses at the hole centre."""
     if case.check.method not in ("shear-formula", "average"):
         return None
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     d = 2.0 * f.radius
     disc = Point(f.centre).buffer(KIRSCH_CLEARANCE * d, quad_segs=ARC_SEGMENTS)
     hole = Point(f.centre).buffer(f.radius, quad_segs=ARC_SEGMENTS)
@@ -337,7 +337,7 @@ def _kirsch(case: Case, level: Level, f: Feature, dom, S: str) -> FormulaValue |
 def _strip(case: Case, level: Level, f: Feature, dom, hd: CutHand,
            S: str) -> FormulaValue | None:
     """Howland's finite-width factor for a central hole in a strip in tension."""
-    g: BeamGeometry = case.geometry  # type: ignore[assignment]
+    g = case.beam
     strips = hd.section.strips
     if len(strips) != 2 or strips[0][2] != strips[1][2]:
         return None
@@ -410,7 +410,7 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
         One per feature that has nodes within its reach.
     """
     fin = levels[-1]
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     sizes = [lv.size for lv in levels]
     L = case.units.length
     locators: dict[int, PointLocator] = {}

@@ -191,8 +191,8 @@ def member_envelope(case: Case, level: Level, zones: list[ExcludedZone] | None =
         Stations, FE and hand values [stress unit], ratio (None where undefined), the worst
         station, the excluded and the unsafe stretches.
     """
-    g = case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = case.beam
+    dom = domain_polygon(g)
     x0, _, x1, _ = dom.bounds
     zones = excluded_zones(case, level.mm.supports, level.mm.loads) if zones is None else zones
     tol = case.check.tolerance if tolerance is None else tolerance
@@ -202,7 +202,7 @@ def member_envelope(case: Case, level: Level, zones: list[ExcludedZone] | None =
     xs = envelope_stations(level, x0, x1, cuts)
     keep, hand = [], []
     for x in xs:
-        strips = cut_strips(g, float(x), case.material.thickness, dom)  # type: ignore[arg-type]
+        strips = cut_strips(g, float(x), case.material.thickness, dom)
         keep.append(bool(strips))  # a line through no material (a notch through the depth)
         if strips:
             y = np.array([0.5 * (strips[0].y0 + strips[0].y1)])

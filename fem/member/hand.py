@@ -60,7 +60,7 @@ def _support(patch: Patch, fix: str, depth: float) -> BeamSupport:
 def beam_model(case: Case, supports: list[Patch], loads: list[Patch], axis_y: float,
                EA: float, EI: float, stations: list[float]) -> BeamModel:
     """The 1D statics model of the member (see module docstring)."""
-    g = case.geometry
+    g = case.beam
     x0, y0, x1, y1 = _bounds(case)
     depth = y1 - y0
     sups = [_support(p, s.fix, depth) for p, s in zip(supports, case.supports, strict=True)]
@@ -98,12 +98,12 @@ def member_model(case: Case, supports: list[Patch], loads: list[Patch],
     from classical.strips import StripSection
     from fem.case.outline import cut_strips, domain_polygon
 
-    g = case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = case.beam
+    dom = domain_polygon(g)
     t = case.material.thickness
-    mid = cut_strips(g, 0.5 * (dom.bounds[0] + dom.bounds[2]), t, dom)  # type: ignore[arg-type]
+    mid = cut_strips(g, 0.5 * (dom.bounds[0] + dom.bounds[2]), t, dom)
     if not mid:  # a void at mid-length: take the first cut that has material
-        mid = next(s for x in stations if (s := cut_strips(g, x, t, dom)))  # type: ignore
+        mid = next(s for x in stations if (s := cut_strips(g, x, t, dom)))
     ref = StripSection(tuple((s.y0, s.y1, s.t) for s in mid))
     E = case.material.E
     return beam_model(case, supports, loads, axis_y=ref.centroid, EA=E * ref.area,
@@ -113,7 +113,7 @@ def member_model(case: Case, supports: list[Patch], loads: list[Patch],
 def _bounds(case: Case) -> tuple[float, float, float, float]:
     from fem.case.outline import domain_polygon
 
-    return domain_polygon(case.geometry).bounds  # type: ignore[arg-type,return-value]
+    return domain_polygon(case.beam).bounds
 
 
 def total_load(case: Case) -> float:

@@ -23,8 +23,8 @@ def hand_units(case: Case) -> dict[str, str]:
 
 def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
     """The hand side of a beam case at its cuts, and the calculation as text lines."""
-    g = case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = case.beam
+    dom = domain_polygon(g)
     sup, lds = patches(case, dom)
     xs = cut_positions(case, sup, lds)
     model = member_model(case, sup, lds, stations=xs)
@@ -39,7 +39,7 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
                      f"Ry = {r[1]:.5g} {F}, couple = {r[2]:.5g} {F} {L}")
     cuts = []
     for x in xs:
-        strips = cut_strips(g, x, case.material.thickness, dom)  # type: ignore[arg-type]
+        strips = cut_strips(g, x, case.material.thickness, dom)
         y = np.concatenate([np.linspace(s.y0, s.y1, 41) for s in strips])
         hd = hand_at_cut(case, model, x, strips, y)
         sec = hd.section
@@ -67,7 +67,7 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
             profile=Profile(y=y.tolist(), tau_fe=[], tau_hand=hd.tau.tolist(),
                             sigma_x_hand=hd.sigma_x.tolist()),
             N_fe=None, N_hand=hd.N, A=sec.area, I=sec.inertia, centroid_y=sec.centroid,
-            tau_formula_hand=hd.tau_max_formula))  # type: ignore[arg-type]
+            tau_formula_hand=hd.tau_max_formula))
     gov = max(cuts, key=lambda c: c.tau_max_hand)
     lines += ["", f"Governing hand shear stress: {gov.tau_max_hand:.4g} {S} at x = {gov.x:g} {L}"]
     res = Result(case=case.name, kind="beam", title=case.title, units=hand_units(case), mesh=None,

@@ -51,8 +51,8 @@ def cut_positions(case: Case, sup: list[Patch], lds: list[Patch]) -> list[float]
     """check.cuts, or the automatic set near loads, supports and features."""
     if case.check.cuts:
         return list(case.check.cuts)
-    g = case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = case.beam
+    dom = domain_polygon(g)
     x0, y0, x1, y1 = dom.bounds
     stations = []
     for p in sup + lds:
@@ -67,12 +67,12 @@ def cut_positions(case: Case, sup: list[Patch], lds: list[Patch]) -> list[float]
     for c in g.cutouts:
         stations.append((c.corner[0], c.corner[0] + c.size[0]))
     xs = automatic_cuts(x0, x1, y1 - y0, stations, min_gap=0.05 * (y1 - y0))
-    return [x for x in xs if cut_strips(g, x, 1.0, dom)]  # type: ignore[arg-type]
+    return [x for x in xs if cut_strips(g, x, 1.0, dom)]
 
 
 def excluded_zones(case: Case, sup: list[Patch], lds: list[Patch]) -> list[ExcludedZone]:
     """Point patches and the ends of clamped or loaded stretches, radius a tenth depth."""
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     depth = dom.bounds[3] - dom.bounds[1]
     r = min(0.1 * depth, 2.0 * case.mesh.size)
     zones = []
@@ -115,10 +115,10 @@ def run_level(case: Case, size: float, xs: list[float] | None = None,
     t0 = time.perf_counter()
     field = recover(sol, mm, case.material)
     locator = PointLocator(field.p, field.t)
-    g = case.geometry
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    g = case.beam
+    dom = domain_polygon(g)
     xs = xs if xs is not None else cut_positions(case, mm.supports, mm.loads)
-    strips_at = {x: cut_strips(g, x, case.material.thickness, dom) for x in xs}  # type: ignore
+    strips_at = {x: cut_strips(g, x, case.material.thickness, dom) for x in xs}
     model = member_model(case, mm.supports, mm.loads, stations=xs)
     cuts_fe, cuts_hand = [], []
     vmax = max(abs(model.forces(x)[0]) for x in xs)

@@ -52,7 +52,7 @@ class MemberMesh:
 def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
                  background: Callable[[], int] | None = None) -> None:
     """Distance/threshold refinement at patch ends, holes, fillets and corners."""
-    g = case.geometry
+    g = case.beam
     fields = []
     scale = size / case.mesh.size
     f = gmsh.model.mesh.field
@@ -118,7 +118,7 @@ def _phys_tag(dim: int, name: str) -> int:
 
 
 def _depth(case: Case) -> float:
-    x0, y0, x1, y1 = domain_polygon(case.geometry).bounds  # type: ignore[arg-type]
+    x0, y0, x1, y1 = domain_polygon(case.beam).bounds
     return y1 - y0
 
 
@@ -130,7 +130,7 @@ def mesh_member(case: Case, size: float | None = None,
     size field; the element size is the smallest of all fields (adaptive refinement).
     """
     size = case.mesh.size if size is None else size
-    g = case.geometry
+    g = case.beam
     estimate = estimate_dofs(case, size)
     if estimate > case.mesh.max_dofs:
         from fem.errors import CaseError
@@ -138,7 +138,7 @@ def mesh_member(case: Case, size: float | None = None,
         raise CaseError(case.file, "mesh.max_dofs",
                         f"the model would have about {estimate:,} dofs at size {size:g}, "
                         f"above the limit {case.mesh.max_dofs:,}; raise mesh.size or max_dofs")
-    dom = domain_polygon(g)  # type: ignore[arg-type]
+    dom = domain_polygon(g)
     sup, lds = patches(case, dom)
     check_mechanism(case, sup)  # refuse a mechanism before gmsh runs
     t0 = time.perf_counter()
@@ -146,8 +146,8 @@ def mesh_member(case: Case, size: float | None = None,
     tol = 1e-7 * max(x1 - x0, y1 - y0)
     with gmsh_session():
         try:
-            surf_names = build_member(g, sup, lds)  # type: ignore[arg-type]
-            groups = name_boundaries(g, sup, lds, tol)  # type: ignore[arg-type]
+            surf_names = build_member(g, sup, lds)
+            groups = name_boundaries(g, sup, lds, tol)
             _size_fields(case, size, sup, lds, background)
             gmsh.option.setNumber("Mesh.Algorithm", 6)
             gmsh.model.mesh.generate(2)
@@ -168,7 +168,7 @@ def mesh_member(case: Case, size: float | None = None,
 
 def _curved(case: Case) -> bool:
     """Holes and fillets need curved (isoparametric) P2 elements; straight outlines do not."""
-    g = case.geometry
+    g = case.beam
     return bool(g.holes) or any(c.fillet > 0 for c in g.cutouts)
 
 
@@ -200,7 +200,7 @@ def _hand_over(case: Case, size: float, surf_names: dict[int, str],
     etype = 9 if curved else 2
     nper = 6 if curved else 3
     conn, elem_thk = [], []
-    thick = {f"zone-{k}": z.thickness for k, z in enumerate(case.geometry.zones)}
+    thick = {f"zone-{k}": z.thickness for k, z in enumerate(case.beam.zones)}
     for s, name in surf_names.items():
         types, _, nodes = gmsh.model.mesh.getElements(2, s)
         for ty, nd in zip(types, nodes, strict=True):

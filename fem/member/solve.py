@@ -212,7 +212,7 @@ def _load_vector(basis: Basis, mm: MemberMesh, load: Load, patch: Patch,
     fb = FacetBasis(host, basis.elem, facets=mm.boundaries[patch.name],
                     intorder=2 * mm.order + 2)
     if patch.hole is not None:
-        c = np.asarray(case.geometry.holes[patch.hole].center)
+        c = np.asarray(case.beam.holes[patch.hole].center)
 
         @LinearForm
         def bearing(v, w):

@@ -73,7 +73,7 @@ def _arrows(case: Case, level: Level, span: float) -> list[tuple[tuple, tuple, n
     """(head, tail, force) of each load's arrow: to the patch centre or the pin's hole."""
     out = []
     for p, ld in zip(level.mm.loads, case.loads, strict=True):
-        head = case.geometry.holes[p.hole].center if p.hole is not None else p.centroid
+        head = case.beam.holes[p.hole].center if p.hole is not None else p.centroid
         F = np.asarray(ld.force, float)
         d = F / max(np.hypot(*F), 1e-300) * 0.12 * span
         out.append((tuple(head), (head[0] - d[0], head[1] - d[1]), F))
@@ -91,7 +91,7 @@ def _patches(ax, case: Case, level: Level, span: float) -> None:
                     solid_capstyle="butt", zorder=5, clip_on=False)
     for p, (head, tail, F) in zip(level.mm.loads, _arrows(case, level, span), strict=True):
         if p.hole is not None:  # the pin bears on the half of the hole facing the force
-            hole = case.geometry.holes[p.hole]
+            hole = case.beam.holes[p.hole]
             phi = math.atan2(F[1], F[0]) + np.linspace(-0.5 * math.pi, 0.5 * math.pi, 60)
             ax.plot(hole.center[0] + hole.radius * np.cos(phi),
                     hole.center[1] + hole.radius * np.sin(phi), color=LOAD_COLOUR, lw=4,
@@ -127,7 +127,7 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
     tri = Triangulation(f.p[0], f.p[1], f.t.T)
     vals = f.nodal[quantity]
     S, L = case.units.stress, case.units.length
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     x0, y0, x1, y1 = dom.bounds
     w, h = x1 - x0, y1 - y0
     zones = excluded_zones(case, level.mm.supports, level.mm.loads)
@@ -239,8 +239,8 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
     """tau(y) FE vs hand at one cut, and sigma_x beside it."""
     S, L = case.units.stress, case.units.length
     y = np.asarray(cut.profile.y)
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
-    strips = cut_strips(case.geometry, cut.x, case.material.thickness, dom)  # type: ignore
+    dom = domain_polygon(case.beam)
+    strips = cut_strips(case.beam, cut.x, case.material.thickness, dom)
     fig, (a1, a2) = plt.subplots(1, 2, figsize=(8.0, 4.4), sharey=True)
     panels = ((a1, cut.profile.tau_fe, cut.profile.tau_hand, "VQ/(Ib)"),
               (a2, cut.profile.sigma_x_fe, cut.profile.sigma_x_hand, "N/A + M(y − ȳ)/I"))
@@ -289,7 +289,7 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
 def _features(case: Case) -> list[tuple[str, float, float, str]]:
     """(name, x_left, x_right, colour) of the supports, loads and holes along the member."""
     sup, lds = patches(case)
-    g = case.geometry
+    g = case.beam
     out = []
     for plist, colour in ((sup, SUPPORT_COLOUR), (lds, LOAD_COLOUR)):
         for p in plist:
@@ -322,7 +322,7 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
     fe = np.array([nan if v is None else v for v in envelope.tau_fe], float)
     hand = np.array([nan if v is None else v for v in envelope.tau_hand], float)
     ratio = np.array([nan if v is None else v for v in envelope.ratio], float)
-    dom = domain_polygon(case.geometry)  # type: ignore[arg-type]
+    dom = domain_polygon(case.beam)
     x0, _, x1, _ = dom.bounds
     pad = 0.004 * (x1 - x0)
     limit = 1.0 + envelope.tolerance

@@ -35,13 +35,13 @@ class SectionRun:
 
 
 def _levels(case: Case, progress: Callable[[str], None] | None) -> list[SectionCheck]:
-    g = case.geometry
+    g = case.section
     out = []
     for k in range(case.mesh.levels):
         size = level_size(case, k)
         if progress:
             progress(f"level {k + 1}/{case.mesh.levels}: size {size:g}")
-        out.append(check_section(g.shape, dict(g.params), E=case.material.E,  # type: ignore[union-attr]  # section case: SectionGeometry
+        out.append(check_section(g.shape, dict(g.params), E=case.material.E,
                                  nu=case.material.nu, Vx=case.shear[0], Vy=case.shear[1],
                                  size=size, order=case.mesh.order, method=case.check.method,
                                  tolerance=case.check.tolerance,

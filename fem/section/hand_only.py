@@ -28,8 +28,8 @@ def _units(case: Case) -> dict[str, str]:
 
 def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     """Section properties and hand shear stresses of a section case."""
-    g = case.geometry
-    outline = section_outline(g.shape, **g.params)  # type: ignore[union-attr]
+    g = case.section
+    outline = section_outline(g.shape, **g.params)
     p = polygon_properties(outline)
     Vx, Vy = case.shear
     L, F, S = case.units.length, case.units.force, case.units.stress
@@ -37,7 +37,7 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     mx = max_shear_formula(outline, abs(Vy)) if Vy else None
     tau_formula = mx.tau_max if mx is not None else float("nan")
     avg = average_shear(V, p.A)
-    choice = choose_method(g.shape, dict(g.params), case.check.method)  # type: ignore
+    choice = choose_method(g.shape, dict(g.params), case.check.method)
     method = choice.method
     thin = thin_wall_peak(g.shape, dict(g.params), Vx, Vy) if method == "thin-wall" else None
     if thin is not None:
@@ -49,7 +49,7 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     else:
         tau_hand = avg if method == "average" else direct_shear(V, p.A, 1)
     lines = [f"Hand calculation: {case.title} ({case.name})",
-             f"Section {g.shape} {g.params}; units {L}, {F}; stress {S}",  # type: ignore
+             f"Section {g.shape} {g.params}; units {L}, {F}; stress {S}",
              f"  A = {p.A:.6g} {L}2, centroid = ({p.cx:.5g}, {p.cy:.5g}) {L}",
              f"  Ixx = {p.Ixx:.6g}, Iyy = {p.Iyy:.6g}, Ixy = {p.Ixy:.6g} {L}4",
              f"  shear V = [{Vx:g}, {Vy:g}] {F}"]

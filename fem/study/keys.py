@@ -65,7 +65,7 @@ def _walk(data: Any, key: str, file: str) -> tuple[Any, str | int]:
             raise CaseError(file, where, "is inside a plain value, not a table or array")
         if last:
             return node, idx
-        node = node[idx]  # type: ignore[index]
+        node = node[idx]
     raise CaseError(file, key, "empty key")
 
 
