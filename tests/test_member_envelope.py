@@ -9,7 +9,12 @@ import pytest
 from conftest import CANTILEVER, plate_cantilever
 
 from fem.case import parse_case
-from fem.member.envelope import element_sizes, envelope_stations, member_envelope
+from fem.member.envelope import (
+    JUDGED_REACH,
+    element_sizes,
+    envelope_stations,
+    member_envelope,
+)
 from fem.member.level import ExcludedZone, excluded_zones, run_level
 from fem.member.recovery import PointLocator
 from fem.results import Result, Timings, write_json
@@ -127,16 +132,17 @@ def test_excluded_zones_are_honoured(stubby):
     k = int(np.argmin(np.abs(np.asarray(env2.x) - w.x)))
     assert env2.tau_fe[k] is not None and env2.tau_fe[k] < w.tau_fe
     assert env2.worst.x < w.x - 8.0 or env2.worst.x > w.x + 8.0
-    whole = ExcludedZone((100.0, 50.0), 80.0, "test disc over the full depth")
+    whole = ExcludedZone((60.0, 50.0), 55.0, "test disc over the full depth")
     env3 = member_envelope(case, level, [whole])
     x3 = np.asarray(env3.x)
-    covered = np.abs(x3 - 100.0) < 60.0      # there the disc spans y = 0..100
+    covered = np.abs(x3 - 60.0) < np.sqrt(55.0**2 - 50.0**2)  # the disc spans y = 0..100
     assert covered.any()
     assert all(env3.tau_fe[i] is None and env3.ratio[i] is None
                for i in np.flatnonzero(covered))
-    assert env3.excluded == [[20.0, 180.0]]
-    assert not 20.0 <= env3.worst.x <= 180.0
-    assert all(b < 20.0 or a > 180.0 for a, b in env3.unsafe)
+    assert env3.excluded == [[5.0, 115.0]]
+    # judged only JUDGED_REACH radii from the centre: x > 60 + 2 x 55 = 170
+    assert env3.worst.x > 60.0 + JUDGED_REACH * 55.0
+    assert all(a > 170.0 for a, b in env3.unsafe)
 
 
 def test_the_tolerance_sets_the_unsafe_stretches(stubby):

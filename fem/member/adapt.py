@@ -22,6 +22,7 @@ import gmsh
 import numpy as np
 
 from fem.case.model import Case
+from fem.member.frame import Frame
 from fem.member.level import excluded_zones, peaks
 from fem.member.mesh import MemberMesh, mesh_member
 from fem.member.recovery import StressField, recover
@@ -103,13 +104,14 @@ def target_sizes(p: np.ndarray, t: np.ndarray, eta: np.ndarray, n_elements: floa
     return np.bincount(t.ravel(), weights=np.tile(h_new, 3), minlength=p.shape[1]) / count
 
 
-def size_field(p: np.ndarray, t: np.ndarray, nodal_size: np.ndarray) -> Callable[[], int]:
+def size_field(p: np.ndarray, t: np.ndarray, nodal_size: np.ndarray) -> Callable[[Frame], int]:
     """A hook for `mesh_member(..., background=)`: inside the gmsh session it adds the nodal
-    sizes on the old triangles as a list-based view and returns a PostView field on it."""
+    sizes on the old triangles, in the mesh frame, as a list-based view and returns a
+    PostView field on it."""
 
-    def add() -> int:
-        x, y = p[0][t], p[1][t]                               # (3, nelems)
-        data = np.vstack([x, y, np.zeros_like(x), nodal_size[t]]).T.ravel()
+    def add(fr: Frame) -> int:
+        x, y = fr.points(p[0][t], p[1][t])                    # (3, nelems)
+        data = np.vstack([x, y, np.zeros_like(x), fr.lengths(nodal_size[t])]).T.ravel()
         view = gmsh.view.add("adaptive size")
         gmsh.view.addListData(view, "ST", t.shape[1], data.tolist())
         f = gmsh.model.mesh.field.add("PostView")
@@ -136,7 +138,7 @@ class AdaptiveLevel:
 
 
 def next_size_field(case: Case, mm: MemberMesh, field: StressField,
-                    growth: float) -> Callable[[], int]:
+                    growth: float) -> Callable[[Frame], int]:
     """The size field for the next mesh: about `growth` times the elements of `mm`, sized
     from its error estimate. Elements in the excluded zones (idealised supports and
     load-patch ends, `fem.member.level.excluded_zones`) keep their size: their stresses are not

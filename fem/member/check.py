@@ -23,7 +23,7 @@ from fem.errors import SolveError
 from fem.member.adapt import next_size_field, representative_size
 from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
-from fem.member.envelope import member_envelope
+from fem.member.envelope import member_envelope, section_peaks
 from fem.member.level import ExcludedZone, Level, excluded_zones, run_level
 from fem.progress import Progress, as_progress
 from fem.results import (
@@ -49,6 +49,13 @@ ADAPT_GROWTH = 2.2
 # which its peak is tracked and inside which a domain peak counts as the corner's: small
 # enough to hold only the corner's own field, fixed under refinement so verdicts stay put
 CORNER_RADIUS = 0.05
+
+# the envelope's worst point governs the convergence study when its ratio is above the worst
+# cut's by more than this share; closer, the two are the same place (the envelope includes
+# the cuts' stations) and the cut, with its profile, is the figure reported
+ENVELOPE_MARGIN = 1e-3
+# the quantity key of the FE shear at the envelope's worst point, one per level
+ENVELOPE_WORST = "envelope worst station tau"
 
 
 @dataclass
@@ -83,29 +90,32 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     findings = beam_findings(case, fin, cuts, peak, zones)
     depth = _depth(case)
     corners = reentrant_corners(domain_polygon(case.beam))
-    envelope = member_envelope(case, fin, zones + _corner_zones(corners, depth))
+    env_zones = zones + _corner_zones(corners, depth)
+    envelope = member_envelope(case, fin, env_zones)
     findings += _envelope_findings(case, envelope, cuts)
     study = _study_of(case)
     conc = concentrations(case, levels, zones, study)
     findings += concentration_findings(case, conc)
     quantities = _quantities(levels, cuts, study)
+    if envelope.worst is not None:
+        quantities[ENVELOPE_WORST] = study([lv.size for lv in levels],
+                                           _station_peaks(levels, envelope.worst.x, env_zones))
     quantities.update({c.feature.key: c.study for c in conc if c.study})
     singular = _singular_corners(corners, levels, depth)
     for s in singular:
         quantities[f"corner ({s.corner.at[0]:g}, {s.corner.at[1]:g}) von_mises"] = study(
             [lv.size for lv in levels], s.values)
     findings += [_singular_finding(case, s) for s in singular]
-    gov_name, gov_cut = _governing(cuts)
-    gov = quantities[gov_name]
-    converged = len(levels) >= 2 and gov["converged"]
-    findings += _convergence_findings(case, levels, gov, gov_cut)
+    gov = _governing(cuts, envelope)
+    converged = len(levels) >= 2 and quantities[gov.name]["converged"]
+    findings += _convergence_findings(case, levels, quantities[gov.name], gov)
     tol = case.check.tolerance
     verdict = decide(findings, tolerance=tol, levels=len(levels), converged=converged,
                      singular_governs=_singular_governs(peak, singular, CORNER_RADIUS * depth),
                      converged_feature_excess=any(c.converged and c.ratio is not None
                                                   and c.ratio > 1 + tol for c in conc))
-    result = _result(case, levels, cuts, peak, findings, verdict.word, quantities, gov_name,
-                     gov_cut, bool(singular), converged)
+    result = _result(case, levels, cuts, peak, findings, verdict.word, quantities, gov,
+                     bool(singular), converged)
     result.envelope = envelope
     return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
 
@@ -247,19 +257,43 @@ def _singular_governs(peak: Peak, singular: list[_Singular], radius: float) -> b
                for s in singular for at in (peak.tau_at, peak.von_mises_at))
 
 
-def _governing(cuts: list[CutResult]) -> tuple[str, CutResult]:
-    """The governing quantity: the worst cut's shear (largest ratio on the finest mesh);
-    with no hand shear at any cut (a member in pure tension) the principal-stress peak."""
+def _station_peaks(levels: list[Level], x: float, zones: list[ExcludedZone]) -> list[float]:
+    """The FE peak |tau_xy| of the vertical section at `x` on every level: the envelope's
+    worst station of the finest mesh, tracked like a cut so its convergence can be judged."""
+    return [float(section_peaks(lv.field, np.array([x]), zones)[0][0]) for lv in levels]
+
+
+@dataclass(frozen=True)
+class _Governing:
+    """The figure whose convergence decides the verdict, and where it is."""
+
+    name: str               # its key in the quantities
+    at: tuple[float, float]
+    what: str               # in words, for results.json and the not-converged finding
+
+
+def _governing(cuts: list[CutResult], env: Envelope) -> _Governing:
+    """The governing quantity: the shear at the worst place on the finest mesh, the worst
+    cut or, where the envelope's worst point between the cuts has the larger ratio (by more
+    than ENVELOPE_MARGIN), the FE shear there; with no hand shear at any cut (a member in
+    pure tension) the principal-stress peak."""
     g = int(np.argmax([-1.0 if c.ratio is None else c.ratio for c in cuts]))
+    c = cuts[g]
     if all(c.ratio is None for c in cuts):
-        return "peak principal", cuts[g]
-    return f"cut x={cuts[g].x:g} tau_max", cuts[g]
+        return _Governing("peak principal", (c.x, c.y_at_tau_max_fe),
+                          "peak max principal stress (no hand shear at any cut)")
+    w = env.worst
+    if w is not None and w.ratio is not None and w.ratio > c.ratio * (1 + ENVELOPE_MARGIN):
+        return _Governing(ENVELOPE_WORST, (w.x, w.y),
+                          f"tau_fe at the envelope's worst point x = {w.x:g}")
+    return _Governing(f"cut x={c.x:g} tau_max", (c.x, c.y_at_tau_max_fe),
+                      f"tau_max at the governing cut x = {c.x:g}")
 
 
 def _convergence_findings(case: Case, levels: list[Level], gov: dict[str, Any],
-                          cut: CutResult) -> list[Finding]:
+                          where: _Governing) -> list[Finding]:
     """A not-converged finding that states the actual reason, if the study is not accepted."""
-    at = [cut.x, cut.y_at_tau_max_fe]
+    at = list(where.at)
     if len(levels) < 2:
         return [Finding(kind="not-converged", at=at, ratio=None, message=(
             "Only one mesh was run, so the FE figures carry no error estimate; set "
@@ -267,25 +301,23 @@ def _convergence_findings(case: Case, levels: list[Level], gov: dict[str, Any],
     if gov["converged"]:
         return []
     return [Finding(kind="not-converged", at=at, ratio=None, message=(
-        f"The governing shear at x = {cut.x:g} {case.units.length} has not converged: "
+        f"The governing shear at x = {where.at[0]:g} {case.units.length} has not converged: "
         f"{gov['reason']}. Refine the mesh (smaller mesh.size or more mesh.levels)."))]
 
 
 def _result(case: Case, levels: list[Level], cuts: list[CutResult], peak: Peak,
             findings: list[Finding], verdict: str, quantities: dict[str, dict[str, Any]],
-            gov_name: str, gov_cut: CutResult, singular: bool, converged: bool) -> Result:
+            where: _Governing, singular: bool, converged: bool) -> Result:
     """The member's `Result` (what results.json holds) from the finished study."""
     fin = levels[-1]
     sol, mm = fin.sol, fin.mm
-    gov = quantities[gov_name]
+    gov = quantities[where.name]
     S, L = case.units.stress, case.units.length
     conv = ConvergenceResult(
         sizes=[lv.size for lv in levels], tau_max=gov["values"],
         observed_order=gov["observed_order"], extrapolated=gov["extrapolated"],
         gci=gov["gci"], singular=singular, converged=converged,
-        quantity=("peak max principal stress (no hand shear at any cut)"
-                  if gov_name == "peak principal"
-                  else f"tau_max at the governing cut x = {gov_cut.x:g}"),
+        quantity=where.what,
         dofs=[lv.sol.basis.N for lv in levels], quantities=quantities)
     timings = Timings(mesh=sum(lv.mm.seconds for lv in levels),
                       assemble=sum(lv.sol.seconds_assemble for lv in levels),

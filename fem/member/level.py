@@ -17,6 +17,7 @@ from classical.beam1d import BeamModel
 from fem.case.model import Case
 from fem.case.outline import Patch, cut_strips, domain_polygon
 from fem.member.cuts import CutFE, automatic_cuts, sample_cut
+from fem.member.frame import Frame
 from fem.member.hand import CutHand, hand_at_cut, member_model
 from fem.member.mesh import MemberMesh, mesh_member
 from fem.member.recovery import PointLocator, StressField, recover
@@ -108,7 +109,7 @@ def peaks(field: StressField, zones: list[ExcludedZone]) -> dict[str, tuple[floa
 
 
 def run_level(case: Case, size: float, xs: list[float] | None = None,
-              background: Callable[[], int] | None = None) -> Level:
+              background: Callable[[Frame], int] | None = None) -> Level:
     """The whole chain at one element size (optionally with an extra size field)."""
     mm = mesh_member(case, size, background=background)
     sol = solve_member(case, mm)

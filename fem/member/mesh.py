@@ -23,6 +23,7 @@ from fem.case.outline import Patch, check_mechanism, domain_polygon, patches, re
 from fem.case.sizing import GRADING, estimate_dofs  # GRADING: size growth per unit distance
 from fem.errors import SolveError
 from fem.gmsh_session import gmsh_session, set_background
+from fem.member.frame import Frame
 from fem.member.gmsh_model import build_member, name_boundaries
 
 __all__ = ["MemberMesh", "mesh_member"]
@@ -49,19 +50,26 @@ class MemberMesh:
         return isinstance(self.mesh, MeshTri2)
 
 
-def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
-                 background: Callable[[], int] | None = None) -> None:
-    """Distance/threshold refinement at patch ends, holes, fillets and corners."""
+def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch], fr: Frame,
+                 background: Callable[[Frame], int] | None = None) -> None:
+    """Distance/threshold refinement at patch ends, holes, fillets and corners.
+
+    Everything is worked out in case units and handed to gmsh in the frame `fr`."""
     g = case.beam
     fields = []
     scale = size / case.mesh.size
     f = gmsh.model.mesh.field
+    gf = fr.geometry(g)
 
     def threshold(points: list[tuple[float, float]] | None, curves: list[int] | None,
                   fine: float, dmin: float, dmax: float) -> None:
+        fine = min(fine, size)
+        # grade the size at most GRADING per unit distance, so fine spots never sit next to
+        # coarse, badly curved isoparametric elements
+        dmax = max(dmax, dmin + (size - fine) / GRADING)
         d = f.add("Distance")
         if points:
-            tags = [gmsh.model.occ.addPoint(x, y, 0) for x, y in points]
+            tags = [gmsh.model.occ.addPoint(*fr.point(p), 0) for p in points]
             gmsh.model.occ.synchronize()
             f.setNumbers(d, "PointsList", tags)
         if curves:
@@ -69,13 +77,10 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
             f.setNumber(d, "Sampling", 200)
         t = f.add("Threshold")
         f.setNumber(t, "InField", d)
-        fine = min(fine, size)
-        f.setNumber(t, "SizeMin", fine)
-        f.setNumber(t, "SizeMax", size)
-        f.setNumber(t, "DistMin", dmin)
-        # grade the size at most GRADING per unit distance, so fine spots never sit next to
-        # coarse, badly curved isoparametric elements
-        f.setNumber(t, "DistMax", max(dmax, dmin + (size - fine) / GRADING))
+        f.setNumber(t, "SizeMin", fr.length(fine))
+        f.setNumber(t, "SizeMax", fr.length(size))
+        f.setNumber(t, "DistMin", fr.length(dmin))
+        f.setNumber(t, "DistMax", fr.length(dmax))
         fields.append(t)
 
     depth = _depth(case)
@@ -92,7 +97,7 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
         threshold(None, curves, min(size / 2, 2 * math.pi * h.radius / 24 * scale),
                   0.0, 1.5 * h.radius)
     fillet_curves = [t for _, t in gmsh.model.getEntities(1)
-                     if gmsh.model.getType(1, t) == "Circle" and not _is_hole(g, t)]
+                     if gmsh.model.getType(1, t) == "Circle" and not _is_hole(gf, t)]
     if fillet_curves:
         rmin = min(c.fillet for c in g.cutouts if c.fillet > 0)
         # 6 elements along a quarter-circle fillet at level 0, doubling with each level
@@ -101,8 +106,8 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
     for r in case.mesh.refine:
         threshold([r.at], None, r.size * scale, r.radius, 2 * r.radius)
     if background is not None:  # e.g. fem.member.adapt.size_field: one more field in the minimum
-        fields.append(background())
-    set_background(fields, size)
+        fields.append(background(fr))
+    set_background(fields, fr.length(size))
 
 
 def _is_hole(g, tag: int) -> bool:
@@ -123,11 +128,13 @@ def _depth(case: Case) -> float:
 
 
 def mesh_member(case: Case, size: float | None = None,
-                background: Callable[[], int] | None = None) -> MemberMesh:
+                background: Callable[[Frame], int] | None = None) -> MemberMesh:
     """Mesh the member at element size `size` (default: mesh.size) and hand it over.
 
-    `background`, if given, is called inside the gmsh session and returns the tag of one more
-    size field; the element size is the smallest of all fields (adaptive refinement).
+    `background`, if given, is called inside the gmsh session with the mesh frame and
+    returns the tag of one more size field; the element size is the smallest of all fields
+    (adaptive refinement). gmsh works in the member's dimensionless frame
+    (fem/member/frame.py), so the mesh is the same whatever the units.
     """
     size = case.mesh.size if size is None else size
     g = case.beam
@@ -143,12 +150,14 @@ def mesh_member(case: Case, size: float | None = None,
     check_mechanism(case, sup)  # refuse a mechanism before gmsh runs
     t0 = time.perf_counter()
     x0, y0, x1, y1 = dom.bounds
-    tol = 1e-7 * max(x1 - x0, y1 - y0)
+    fr = Frame.of(dom.bounds)
+    tol = 1e-7 * max(x1 - x0, y1 - y0) / fr.scale
+    gf, sup_f, lds_f = fr.geometry(g), [fr.patch(p) for p in sup], [fr.patch(p) for p in lds]
     with gmsh_session():
         try:
-            surf_names = build_member(g, sup, lds)
-            groups = name_boundaries(g, sup, lds, tol)
-            _size_fields(case, size, sup, lds, background)
+            surf_names = build_member(gf, sup_f, lds_f)
+            groups = name_boundaries(gf, sup_f, lds_f, tol)
+            _size_fields(case, size, sup, lds, fr, background)
             gmsh.option.setNumber("Mesh.Algorithm", 6)
             gmsh.model.mesh.generate(2)
             if case.mesh.order == 2 and _curved(case):  # straight: P2 on the linear mesh
@@ -160,7 +169,7 @@ def mesh_member(case: Case, size: float | None = None,
             raise SolveError(f"gmsh could not build or mesh the member at size {size:g} "
                              f"({exc}); check the geometry for features much smaller than "
                              "the element size, or change mesh.size") from None
-        mm = _hand_over(case, size, surf_names, groups)
+        mm = _hand_over(case, size, surf_names, groups, fr)
     mm.supports, mm.loads = sup, lds
     mm.seconds = time.perf_counter() - t0
     return mm
@@ -191,9 +200,9 @@ def _untangle(size: float) -> None:
 
 
 def _hand_over(case: Case, size: float, surf_names: dict[int, str],
-               groups: dict[str, list[int]]) -> MemberMesh:
+               groups: dict[str, list[int]], fr: Frame) -> MemberMesh:
     tags, coords, _ = gmsh.model.mesh.getNodes()
-    xy = coords.reshape(-1, 3)[:, :2]
+    xy = fr.back(coords.reshape(-1, 3)[:, :2])
     index = np.full(int(tags.max()) + 1, -1, dtype=np.int64)
     index[tags.astype(np.int64)] = np.arange(len(tags))
     curved = case.mesh.order == 2 and _curved(case)  # only then has gmsh set order 2
