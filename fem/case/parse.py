@@ -47,6 +47,7 @@ from fem.case.model import (
     Zone,
 )
 from fem.case.outline import validate_geometry
+from fem.case.plates import read_joints, read_plates
 from fem.case.reader import Table, as_point, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
@@ -215,8 +216,9 @@ def _check(t: Table | None, kind: str) -> Check:
         raise t.error("cuts", "is empty; leave it out for the automatic set")
     tol = t.number("tolerance", 0.05, low=0.0, high=1.0)
     hv = t.number("hand_value", None, low=0.0, low_open=True)
+    joints = read_joints(t) if kind == "section" else ()
     t.close()
-    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv)
+    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv, joints=joints)
 
 
 def _beam_geometry(t: Table) -> BeamGeometry:
@@ -327,7 +329,9 @@ def _section_geometry(t: Table) -> SectionGeometry:
     for k in required + optional:
         if k not in required and not t.has(k):
             continue
-        if k in ("points", "holes"):
+        if k == "plates":
+            params[k] = read_plates(t)
+        elif k in ("points", "holes"):
             params[k] = _rings(t, k)
         else:
             params[k] = t.number(k, low=0.0, low_open=(k != "root_radius"))

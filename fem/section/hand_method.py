@@ -99,6 +99,7 @@ def choose_method(shape: str, params: dict, method: str = "auto") -> HandChoice:
             + " follows the wall, where cuts parallel to an axis need not be across it"
             + ("" if closed or shape == "angle" else "; root radii are not in the model")))
     why = ("a drawn polygon (no centre-line model)" if shape == "polygon" else
+           "a built-up section of plates (no centre-line model)" if shape == "built-up" else
            f"a solid {shape}" if ratio is None else
            f"walls too thick for thin-wall theory (wall/size {ratio:.3g} > {THIN_WALL_RATIO:g})")
     return HandChoice("shear-formula", f"{why}: tau = VQ/(Ib) on the worst cut")

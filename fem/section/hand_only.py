@@ -16,6 +16,7 @@ from classical.sections import (
 )
 from classical.shear import average_shear, direct_shear, max_shear_formula
 from fem.case.model import Case
+from fem.case.plates import drawn_section
 from fem.results import Result, Timings
 from fem.section.hand_method import choose_method, thin_wall_peak
 
@@ -28,7 +29,7 @@ def _units(case: Case) -> dict[str, str]:
 
 def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     """Section properties and hand shear stresses of a section case."""
-    g = case.section
+    g = drawn_section(case.section)
     outline = section_outline(g.shape, **g.params)
     p = polygon_properties(outline)
     Vx, Vy = case.shear
@@ -37,7 +38,7 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     mx = max_shear_formula(outline, abs(Vy)) if Vy else None
     tau_formula = mx.tau_max if mx is not None else float("nan")
     avg = average_shear(V, p.A)
-    choice = choose_method(g.shape, dict(g.params), case.check.method)
+    choice = choose_method(case.section.shape, dict(g.params), case.check.method)
     method = choice.method
     thin = thin_wall_peak(g.shape, dict(g.params), Vx, Vy) if method == "thin-wall" else None
     if thin is not None:

@@ -35,15 +35,18 @@ from __future__ import annotations
 
 import math
 import time
-from dataclasses import asdict, dataclass, field
+from collections.abc import Sequence
+from dataclasses import asdict, dataclass, field, replace
 
 import numpy as np
 
 from classical.sections import Outline, SectionProperties, chord_segments, polygon_properties
 from classical.shear import average_shear, direct_shear, max_shear_formula, shear_profile
-from fem.case.model import SECTION_METHODS
+from fem.case.model import SECTION_METHODS, Joint, SectionGeometry
+from fem.case.plates import drawn_section
 from fem.results import Finding, MeshInfo
 from fem.section.hand_method import HandChoice, choose_method, thin_wall_peak
+from fem.section.joints import JointFlow, default_joints, joint_findings, joint_flows
 from fem.section.mesh import SectionMesh, SectionShape, mesh_section, section_shape
 from fem.section.solve import SectionSolution, solve_section
 
@@ -104,6 +107,7 @@ class SectionCheck:
     verdict: str
     findings: tuple[Finding, ...]
     solution: SectionSolution | None = field(default=None, repr=False, compare=False)
+    joints: tuple[JointFlow, ...] = ()
 
     def to_dict(self) -> dict:
         """The ``section`` object of results.json (contract keys first, then extras)."""
@@ -138,7 +142,8 @@ class SectionCheck:
                                 "reactions": list(self.resultant["fe"]),
                                 "relative_error": self.resultant["relative_error"]},
                 "verdict": self.verdict, "findings": [asdict(f) for f in self.findings],
-                "timings": dict(self.timings)}
+                "timings": dict(self.timings),
+                **({"joints": [j.to_dict() for j in self.joints]} if self.joints else {})}
 
 
 def _rotated(outline: Outline, c: tuple[float, float], phi: float) -> Outline:
@@ -351,10 +356,11 @@ def _user_finding(pk: _FePeaks, hand_value: float | None, lim: float) -> Finding
 
 
 def _level_verdict(pk: _FePeaks, hand: float, hand_value: float | None, lim: float,
-                   singular: bool) -> str:
+                   singular: bool, joints_excess: bool = False) -> str:
     """This one mesh's word (the case's verdict is `fem.verdict.decide` over the levels)."""
     ratio, ratio_raw = pk.peak_regular / hand, pk.peak / hand
-    unsafe = ratio > lim or (hand_value is not None and pk.peak_regular / hand_value > lim)
+    unsafe = ratio > lim or (hand_value is not None and pk.peak_regular / hand_value > lim) \
+        or joints_excess
     governs = singular and (ratio_raw > lim or (hand_value is not None
                                                 and pk.peak > lim * hand_value))
     return "unsafe" if unsafe else ("inconclusive" if governs else "holds")
@@ -362,26 +368,30 @@ def _level_verdict(pk: _FePeaks, hand: float, hand_value: float | None, lim: flo
 
 def _findings(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandSide,
               na: CutProfile, method: str, size: float, tolerance: float,
-              hand_value: float | None) -> tuple[list[Finding], str]:
-    """Every finding of one mesh, in order, and that mesh's verdict."""
+              hand_value: float | None, joints: tuple[JointFlow, ...] = ()
+              ) -> tuple[list[Finding], str]:
+    """Every finding of one mesh, in order (joints last), and that mesh's verdict."""
     lim = 1.0 + tolerance
     singular = _singular_finding(geom, pk, hs.hand, size)
     edge = _edge_finding(na, method, lim)
     found = [singular, edge,
              _peak_finding(geom, sol, pk, hs, method, size, lim, edge is not None),
              _user_finding(pk, hand_value, lim)]
-    return ([f for f in found if f is not None],
-            _level_verdict(pk, hs.hand, hand_value, lim, singular is not None))
+    jf = joint_findings(joints, tolerance)
+    return ([f for f in found if f is not None] + jf,
+            _level_verdict(pk, hs.hand, hand_value, lim, singular is not None,
+                           any(f.kind == "joint-excess" for f in jf)))
 
 
 def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: float,
                   size: float, order: int = 2, method: str = "auto",
-                  tolerance: float = 0.05, hand_value: float | None = None) -> SectionCheck:
+                  tolerance: float = 0.05, hand_value: float | None = None,
+                  joints: Sequence[Joint] = ()) -> SectionCheck:
     """Solve a section for shear (Vx, Vy) through its shear centre and compare with hand.
 
     The recipe: choose the hand method -> mesh and solve -> FE peaks (`_fe_peaks`) ->
-    hand side (`_hand_side`) -> profiles (`_profiles`) -> findings and this mesh's
-    verdict (`_findings`) -> `SectionCheck` (`_assemble`).
+    hand side (`_hand_side`) -> profiles (`_profiles`) -> joints (`joint_flows`) ->
+    findings and this mesh's verdict (`_findings`) -> `SectionCheck` (`_assemble`).
 
     Parameters
     ----------
@@ -401,6 +411,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         FE above the hand value by more than this fraction -> ``unsafe``.
     hand_value
         Optional user's own peak shear stress [stress]; exceeded -> ``unsafe``.
+    joints
+        Joint lines (:class:`fem.case.model.Joint`); none given on a ``built-up``
+        section -> every plate interface (:func:`fem.section.joints.default_joints`).
 
     Returns
     -------
@@ -417,7 +430,8 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     if Vx == 0.0 and Vy == 0.0:
         raise ValueError("the shear [Vx, Vy] must not be zero")
     choice = choose_method(shape, params, method)
-    geom = section_shape(shape, **params)
+    drawn = drawn_section(SectionGeometry(shape, params))
+    geom = replace(section_shape(drawn.shape, **drawn.params), shape=shape)
     smesh = mesh_section(geom, size, order)
     sol = solve_section(smesh, nu)
     t0 = time.perf_counter()
@@ -425,11 +439,13 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     pk = _fe_peaks(sol, geom, Vs, size)
     hs = _hand_side(geom, sol, shape, params, choice.method, (Vx, Vy), Vs)
     na, cuts = _profiles(sol, hs, Vs)
+    flows = joint_flows(sol, geom.outline, hs.props, default_joints(shape, params, joints), Vs)
     findings, verdict = _findings(geom, sol, pk, hs, na, choice.method, size, tolerance,
-                                  hand_value)
-    return _assemble(shape, choice, geom, smesh, sol, pk, hs, na, cuts, findings, verdict,
-                     E=E, V=(Vx, Vy), Vs=Vs, size=size, order=order, tolerance=tolerance,
-                     hand_value=hand_value, t_post=time.perf_counter() - t0)
+                                  hand_value, flows)
+    return replace(_assemble(shape, choice, geom, smesh, sol, pk, hs, na, cuts, findings,
+                             verdict, E=E, V=(Vx, Vy), Vs=Vs, size=size, order=order,
+                             tolerance=tolerance, hand_value=hand_value,
+                             t_post=time.perf_counter() - t0), joints=flows)
 
 
 def _assemble(shape: str, choice: HandChoice, geom: SectionShape, smesh: SectionMesh,
