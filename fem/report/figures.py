@@ -17,8 +17,10 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
                                    envelope=getattr(res.result, "envelope", None))
     else:
         from fem.report.section_figures import write_section_figures
+        from fem.report.wall_figures import write_wall_figures
 
         paths = write_section_figures(res.case, res.run, folder)
+        paths += write_wall_figures(res.case, res.run, folder)
     from fem.report.convergence_figure import convergence_figure, has_study
 
     if has_study(res.result.convergence):

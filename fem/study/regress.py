@@ -61,6 +61,9 @@ def figures_of(data: dict[str, Any]) -> dict[str, dict[str, Any]]:
         sc = s.get("shear_centre") or [None, None]
         f["section shear_centre x"] = {"value": sc[0], "scale": scale}
         f["section shear_centre y"] = {"value": sc[1], "scale": scale}
+        for j in data.get("joints") or []:   # joint lines (fem.section.joints)
+            f[f"joint {j['name']} q_fe"] = {"value": j["q_fe"]}
+            f[f"joint {j['name']} ratio"] = {"value": j["ratio"]}
         return f
     pk = data.get("peak") or {}
     floor = STRESS_FLOOR * (pk.get("von_mises_max") or 0.0)
