@@ -98,6 +98,9 @@ def plot_section_flow(check: SectionCheck, case: Case, path: str | Path,
                     bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": "none",
                           "alpha": 0.8})
     ax.set_aspect("equal")
+    sc = check.shear_centre          # may lie outside the section (a channel's does)
+    x0, x1 = min(x0, sc[0]), max(x1, sc[0])
+    y0, y1 = min(y0, sc[1]), max(y1, sc[1])
     pad = 0.06 * max(x1 - x0, y1 - y0)
     ax.set_xlim(x0 - pad, x1 + pad)
     ax.set_ylim(y0 - pad, y1 + pad)
