@@ -165,6 +165,7 @@ class Check:
     tolerance: float = 0.05
     hand_value: float | None = None
     joints: tuple[Joint, ...] = ()   # sections: [[check.joints]] (fem.case.plates)
+    planes: tuple[float, ...] = ()   # beams: horizontal planes y (fem.member.planes)
 
 
 @dataclass(frozen=True)

@@ -47,7 +47,7 @@ from fem.case.model import (
     Zone,
 )
 from fem.case.outline import validate_geometry
-from fem.case.plates import read_joints, read_plates
+from fem.case.plates import read_joints, read_plates, validate_planes
 from fem.case.reader import Table, as_point, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
@@ -134,6 +134,7 @@ def _parse(text: str, file: str) -> Case:
                 shear=shear, file=file, schema=schema)
     if kind == "beam":
         validate_geometry(case)
+        validate_planes(case)
     else:
         validate_section(case)
     check_size(case)
@@ -217,8 +218,10 @@ def _check(t: Table | None, kind: str) -> Check:
     tol = t.number("tolerance", 0.05, low=0.0, high=1.0)
     hv = t.number("hand_value", None, low=0.0, low_open=True)
     joints = read_joints(t) if kind == "section" else ()
+    planes = t.numbers("planes", ()) if beam else ()
     t.close()
-    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv, joints=joints)
+    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv, joints=joints,
+                 planes=planes)
 
 
 def _beam_geometry(t: Table) -> BeamGeometry:

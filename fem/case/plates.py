@@ -28,11 +28,13 @@ from shapely.ops import linemerge, unary_union
 
 from classical.sections import section_outline
 from fem.case.model import Case, Joint, SectionGeometry
+from fem.case.outline import domain_polygon
 from fem.case.reader import Table, as_point
 from fem.errors import CaseError
 
 __all__ = ["BuiltUp", "Interface", "build_up", "drawn_section", "read_joints", "read_plates",
-           "section_polygon", "validate_built_up", "validate_joints", "GEOMETRY_TOL"]
+           "section_polygon", "validate_built_up", "validate_joints", "validate_planes",
+           "GEOMETRY_TOL"]
 
 GEOMETRY_TOL = 1e-9  # lengths below this x the section's extent are round-off (touching)
 
@@ -209,6 +211,17 @@ def read_joints(t: Table) -> tuple[Joint, ...]:
         j.close()
         out.append(Joint(name, start, end, cap, spacing, throat, welds, key=j.path))
     return tuple(out)
+
+
+def validate_planes(case: Case) -> None:
+    """Each ``check.planes`` level lies strictly inside the member's depth."""
+    _, y0, _, y1 = domain_polygon(case.beam).bounds
+    tol = 1e-6 * (y1 - y0)
+    for k, y in enumerate(case.check.planes):
+        if not y0 + tol < y < y1 - tol:
+            raise CaseError(case.file, f"check.planes.{k}",
+                            f"{y:g} is not inside the member: a plane must lie between its "
+                            f"bottom and top, {y0:g} < y < {y1:g}")
 
 
 def _material_pieces(cut: Any, tol: float) -> list[LineString]:

@@ -15,6 +15,11 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
 
         paths = write_beam_figures(res.case, res.run.finest, res.result.cuts, folder,
                                    envelope=getattr(res.result, "envelope", None))
+        if getattr(res.result, "planes", None):
+            from fem.report.plane_figures import plot_planes
+
+            paths.append(plot_planes(res.result.planes, res.result.units, res.case.name,
+                                     Path(folder) / "planes.png"))
     else:
         from fem.report.section_figures import write_section_figures
         from fem.report.wall_figures import write_wall_figures

@@ -11,7 +11,7 @@ from typing import Any
 
 from fem.report.blocks import Block, Section, Table, sci
 
-__all__ = ["joint_section"]
+__all__ = ["joint_section", "plane_section"]
 
 
 def _check_text(j: dict, F: str, L: str, S: str) -> str:
@@ -91,4 +91,31 @@ def joint_section(res: Any) -> Section | None:
                           f"q FE [{F}/{L}]", "FE / hand", "fasteners / welds"], rows,
                          f"Joints (ratio above {1 + tol:.2f} marked)", marked))
     s.items.append(Block("\n".join(_written_out(j, hp, V, L, F) for j in joints), "formula"))
+    return s
+
+
+def plane_section(res: Any) -> Section | None:
+    """'Longitudinal shear on planes' for a member with ``check.planes``, else None."""
+    r = res.result
+    planes = getattr(r, "planes", None)
+    if not planes:
+        return None
+    L, F = r.units["length"], r.units["force"]
+    s = Section("Longitudinal shear on planes (glue lines, weld lines)")
+    s.items.append(Block(
+        "Along each horizontal plane the FE longitudinal shear per unit length τxy·t is set "
+        "against q = VQ/I at the same x (Q of the material above the plane; common "
+        "practice), and the total between the first and last station against the hand "
+        "change of the force in the part above, ΔF = Δ(MQ/I)."))
+    rows = []
+    for p in planes:
+        x = p["x"]
+        k = min(range(len(x)), key=lambda i: abs(x[i] - 0.5 * (x[0] + x[-1])))
+        ratio = p["q_fe"][k] / p["q_hand"][k] if p["q_hand"][k] else None
+        rows.append([sci(p["y"]), sci(x[k]), sci(p["q_fe"][k]), sci(p["q_hand"][k]),
+                     f"{ratio:.3f}" if ratio is not None else "–", sci(p["total_fe"]),
+                     sci(p["total_hand"])])
+    s.items.append(Table([f"plane y [{L}]", f"x mid [{L}]", f"q FE [{F}/{L}]",
+                          f"VQ/I [{F}/{L}]", "FE / hand", f"∫q dx FE [{F}]",
+                          f"ΔF hand [{F}]"], rows, "Planes, at mid-length and in total"))
     return s

@@ -22,7 +22,7 @@ from classical.bending import shear_yield
 from fem.report.blocks import Block, Note, Section, Table, sci
 from fem.report.convergence_figure import quantity_label
 from fem.report.html import render_html
-from fem.report.joint_note import joint_section
+from fem.report.joint_note import joint_section, plane_section
 from fem.report.pdf import write_pdf
 from fem.report.section_note import (
     section_comparison,
@@ -348,6 +348,8 @@ _CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), 
              "section-flow": "Shear flow over the section: arrows give the direction and size "
                              "of τ, colour |τ|; centroid (+), shear centre (×) and the joint "
                              "lines with their FE shear flow.",
+             "planes": "Longitudinal shear per unit length on each plane (check.planes): "
+                       "FE τxy·t against VQ/I along the member, excluded zones greyed.",
              "wall-flow": "Shear flow along each wall's centre line: the FE stress averaged "
                           "through the wall against thin-wall theory (Megson, Ch. 16-17).",
              "convergence": "Convergence: the governing FE figure against element size with "
@@ -375,7 +377,7 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     else:
         sections.append(section_fe(res))
     sections.append(_comparison(res))
-    sections += [j for j in (joint_section(res),) if j is not None]
+    sections += [j for j in (joint_section(res), plane_section(res)) if j is not None]
     sections += [_convergence(res), _assumptions(res)]
     figs = [(Path(p), _caption(res, Path(p))) for p in figures if Path(p).suffix == ".png"]
     return Note(title=r.title, subtitle=f"case {r.case} · {r.kind} check · shearcheck",
