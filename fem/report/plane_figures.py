@@ -31,9 +31,11 @@ def plot_planes(planes: list[dict[str, Any]], units: dict[str, str], name: str,
             ax.axvspan(xx - 0.5 * (x[1] - x[0]), xx + 0.5 * (x[1] - x[0]), color="0.85", lw=0)
         ax.axhline(0.0, color="0.5", lw=0.6)
         ax.set_ylabel(f"q [{F}/{L}]")
+        ref = float(np.max(np.abs(p["q_fe"]))) * (x[-1] - x[0])  # round-off below 1e-9 ref
+        tot = [0.0 if abs(v) < 1e-9 * ref else v for v in (p["total_fe"], p["total_hand"])]
         ax.set_title(f"plane y = {p['y']:g} {L}: total from x = {p['x_range'][0]:.4g} to "
-                     f"{p['x_range'][1]:.4g}: FE {p['total_fe']:.4g} {F}, hand ΔF = "
-                     f"{p['total_hand']:.4g} {F}", fontsize=9)
+                     f"{p['x_range'][1]:.4g}: FE {tot[0]:.4g} {F}, hand ΔF = {tot[1]:.4g} {F}",
+                     fontsize=9)
         ax.grid(alpha=0.3)
         ax.legend(fontsize=8, loc="best")
     axes[-1, 0].set_xlabel(f"x [{L}]")
