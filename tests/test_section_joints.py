@@ -114,3 +114,20 @@ def test_fastener_spacing_and_capacity():
     assert j.max_spacing == pytest.approx(5000.0 / j.q_design, rel=1e-12)
     cap = [f for f in r.findings if f.kind == "joint-capacity"]
     assert cap and cap[0].ratio == pytest.approx(j.demand / 5000.0)
+
+
+def test_hand_lines_of_the_girder_joints():
+    """`shearcheck hand` writes each joint's VQ/I: the girder of
+    cases/welded-plate-girder-section.toml, Q = 300 x 20 x 440 = 2.64e6 mm3,
+    I = 10 x 860^3/12 + 2 (300 x 20^3/12 + 6000 x 440^2), q = 600 kN Q / I = 555.08 N/mm,
+    throat q/(2 x 4.2) = 66.08 MPa (common practice)."""
+    from conftest import ROOT
+
+    from fem.case import load_case
+    from fem.section.hand_only import section_hand_result
+
+    _, lines = section_hand_result(load_case(ROOT / "cases" / "welded-plate-girder-section.toml"))
+    text = "\n".join(lines)
+    I = 10 * 860**3 / 12 + 2 * (300 * 20**3 / 12 + 6000 * 440**2)  # noqa: E741
+    assert f"q = {600_000 * 2.64e6 / I:.5g} N/mm" in text
+    assert "q/(2 x 4.2) = 66.08 MPa" in text

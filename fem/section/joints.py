@@ -45,7 +45,8 @@ from fem.case.plates import build_up
 from fem.results import Finding
 from fem.section.solve import SectionSolution
 
-__all__ = ["JointFlow", "hand_flow", "joint_flows", "joint_findings", "default_joints",
+__all__ = ["JointFlow", "hand_flow", "hand_joint_lines", "joint_flows", "joint_findings",
+           "default_joints",
            "GAUSS_POINTS"]
 
 GAUSS_POINTS = 16   # Gauss-Legendre points per piece of the line
@@ -220,39 +221,94 @@ def hand_flow(ab: np.ndarray, Qx: float, Qy: float) -> float:
     return float(ab[0] * Qy + ab[1] * Qx)
 
 
+@dataclass(frozen=True)
+class _Cut:
+    """The hand side of one joint: the stretch across material, the part it cuts off."""
+
+    a: np.ndarray
+    b: np.ndarray
+    n: np.ndarray                 # into the part
+    part: Polygon | None
+    second: str
+    area: float
+    centroid: tuple[float, float]
+    Qx: float
+    Qy: float
+    q_hand: float | None
+
+
+def _joint_cut(poly: Polygon, hp: SectionProperties, jt: Joint, V: tuple[float, float]
+               ) -> _Cut:
+    """Where the joint crosses the material, the part it cuts off and its VQ/I."""
+    inside = LineString([jt.start, jt.end]).intersection(poly)
+    seg = max(getattr(inside, "geoms", [inside]), key=lambda g: g.length)
+    a, b = (np.asarray(p, dtype=float) for p in seg.coords[:2])
+    if (b - a) @ np.subtract(jt.end, jt.start) < 0:   # keep the sense from -> to
+        a, b = b, a
+    L = float(np.linalg.norm(b - a))
+    e = (b - a) / L
+    n = np.array([-e[1], e[0]])
+    part, second = _cut_off(poly, a, b, hp, V)
+    if part is None:
+        return _Cut(a, b, n, None, second, 0.0, (math.nan, math.nan), math.nan, math.nan,
+                    None)
+    if not part.contains(Point(*((a + b) / 2 + 1e-4 * L * n))):
+        n = -n
+    area, cen = float(part.area), (float(part.centroid.x), float(part.centroid.y))
+    Qx, Qy = area * (cen[1] - hp.cy), area * (cen[0] - hp.cx)
+    ab = np.linalg.solve([[hp.Iyy, hp.Ixy], [hp.Ixy, hp.Ixx]], np.asarray(V, dtype=float))
+    return _Cut(a, b, n, part, second, area, cen, Qx, Qy, hand_flow(ab, Qx, Qy))
+
+
 def joint_flows(sol: SectionSolution, outline: Outline, hp: SectionProperties,
                 joints: Sequence[Joint], V: tuple[float, float]) -> tuple[JointFlow, ...]:
     """FE and hand shear flow across each joint for the solved shear V = (Vx, Vy)."""
     poly = Polygon(outline.outer, list(outline.holes))
-    ab = np.linalg.solve([[hp.Iyy, hp.Ixy], [hp.Ixy, hp.Ixx]], np.asarray(V, dtype=float))
     out = []
     for jt in joints:
-        inside = LineString([jt.start, jt.end]).intersection(poly)
-        seg = max(getattr(inside, "geoms", [inside]), key=lambda g: g.length)
-        a, b = (np.asarray(p, dtype=float) for p in seg.coords[:2])
-        if (b - a) @ np.subtract(jt.end, jt.start) < 0:   # keep the sense from -> to
-            a, b = b, a
-        L = float(np.linalg.norm(b - a))
-        e = (b - a) / L
-        n = np.array([-e[1], e[0]])
-        part, second = _cut_off(poly, a, b, hp, V)
-        if part is not None and not part.contains(Point(*((a + b) / 2 + 1e-4 * L * n))):
-            n = -n
-        pts, ds = _line_points(a, b)
-        q_line = float(np.sum((sol.probe(pts, *V) @ n) * ds))
-        q_fe = _domain_flux(sol, a, b, n, part, V) if part is not None else q_line
-        if part is None:
-            area, cen, Qx, Qy, q_hand = 0.0, (math.nan, math.nan), math.nan, math.nan, None
-        else:
-            area, cen = float(part.area), (float(part.centroid.x), float(part.centroid.y))
-            Qx, Qy = area * (cen[1] - hp.cy), area * (cen[0] - hp.cx)
-            q_hand = hand_flow(ab, Qx, Qy)
-        ratio = q_fe / q_hand if q_hand else None
-        flow = JointFlow(jt.name, (float(a[0]), float(a[1])), (float(b[0]), float(b[1])), L,
-                         (float(n[0]), float(n[1])), area, cen, Qx, Qy, second, q_hand, q_fe,
-                         q_line, ratio, jt.capacity, jt.spacing, throat=jt.throat, welds=jt.welds)
+        c = _joint_cut(poly, hp, jt, V)
+        pts, ds = _line_points(c.a, c.b)
+        q_line = float(np.sum((sol.probe(pts, *V) @ c.n) * ds))
+        q_fe = _domain_flux(sol, c.a, c.b, c.n, c.part, V) if c.part is not None else q_line
+        ratio = q_fe / c.q_hand if c.q_hand else None
+        flow = JointFlow(jt.name, (float(c.a[0]), float(c.a[1])),
+                         (float(c.b[0]), float(c.b[1])), float(np.linalg.norm(c.b - c.a)),
+                         (float(c.n[0]), float(c.n[1])), c.area, c.centroid, c.Qx, c.Qy,
+                         c.second, c.q_hand, q_fe, q_line, ratio, jt.capacity, jt.spacing,
+                         throat=jt.throat, welds=jt.welds)
         out.append(_fasteners(flow))
     return tuple(out)
+
+
+def hand_joint_lines(outline: Outline, hp: SectionProperties, joints: Sequence[Joint],
+                     V: tuple[float, float], length: str, force: str, stress: str
+                     ) -> list[str]:
+    """The hand shear flow of each joint written out, for ``shearcheck hand``."""
+    poly = Polygon(outline.outer, list(outline.holes))
+    lines = []
+    for jt in joints:
+        c = _joint_cut(poly, hp, jt, V)
+        if c.q_hand is None:
+            lines.append(f"  joint {jt.name}: cuts off no part on its own (closed cell, not "
+                         "symmetric): statically indeterminate, no VQ/I")
+            continue
+        extra = f" with the symmetry axis {c.second}" if c.second else ""
+        Q = (f"Q = A (y - ybar) = {c.Qx:.6g}" if V[0] == 0.0 else
+             f"Q = A (x - xbar) = {c.Qy:.6g}" if V[1] == 0.0 else
+             f"Qx = {c.Qx:.6g}, Qy = {c.Qy:.6g}")
+        lines.append(f"  joint {jt.name}: part cut off{extra}: A = {c.area:.6g} {length}2, "
+                     f"centroid ({c.centroid[0] + 0.0:.5g}, {c.centroid[1] + 0.0:.5g}); {Q} "
+                     f"{length}3; q = {c.q_hand:.5g} {force}/{length}")
+        if jt.throat is not None:
+            lines.append(f"    weld throat: q/({jt.welds} x {jt.throat:g}) = "
+                         f"{abs(c.q_hand) / (jt.welds * jt.throat):.4g} {stress}")
+        if jt.capacity is not None:
+            lines.append(f"    largest spacing C/q = {jt.capacity:g}/{abs(c.q_hand):.5g} = "
+                         f"{jt.capacity / abs(c.q_hand):.4g} {length}")
+        if jt.spacing is not None:
+            lines.append(f"    demand per fastener q s = {abs(c.q_hand) * jt.spacing:.5g} "
+                         f"{force}")
+    return lines
 
 
 def _fasteners(f: JointFlow) -> JointFlow:
