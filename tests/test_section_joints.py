@@ -131,3 +131,17 @@ def test_hand_lines_of_the_girder_joints():
     I = 10 * 860**3 / 12 + 2 * (300 * 20**3 / 12 + 6000 * 440**2)  # noqa: E741
     assert f"q = {600_000 * 2.64e6 / I:.5g} N/mm" in text
     assert "q/(2 x 4.2) = 66.08 MPa" in text
+
+
+def test_unsymmetric_closed_cell_joint_has_no_hand_value():
+    """A box whose right web is twice as thick is not symmetric about the vertical axis:
+    a web-to-flange joint of the closed cell has no VQ/I of its own (statically
+    indeterminate; Megson, 4th ed., Ch. 17, from memory).  No ratio, an informing
+    joint-indeterminate finding, and the FE flow still reported."""
+    h, b, t = 500.0, 300.0, 10.0
+    plates = list(_box(h, b, t))
+    plates[3] = ((b - 2 * t, t), (b, t), (b, h - t), (b - 2 * t, h - t))
+    r = check_section("built-up", {"plates": tuple(plates)}, E, NU, 0.0, 1e5, 10.0)
+    assert all(j.q_hand is None and j.ratio is None for j in r.joints)
+    found = [f for f in r.findings if f.kind == "joint-indeterminate"]
+    assert len(found) == 4 and all(abs(j.q_fe) > 10.0 for j in r.joints)
