@@ -172,6 +172,8 @@ class Result:
     caution: str = CAUTION
     schema: int = 1
     envelope: Envelope | None = None
+    joints: list[dict[str, Any]] | None = None   # sections with joint lines (fem.section.joints)
+    planes: list[dict[str, Any]] | None = None   # beams with check.planes (fem.member.planes)
 
     def to_dict(self) -> dict[str, Any]:
         d = to_jsonable(self)
@@ -183,6 +185,10 @@ class Result:
             d.pop("section", None)
         if self.kind == "section" or self.envelope is None:
             d.pop("envelope", None)  # no key rather than null: outputs stay as they were
+        if self.joints is None:
+            d.pop("joints", None)
+        if self.planes is None:
+            d.pop("planes", None)
         return d
 
 

@@ -17,7 +17,7 @@ DECIDING_KINDS = frozenset({
     # members: at a cut or along the member
     "short-beam", "shear-excess", "concentration", "envelope-excess", "method-excess",
     # sections: over the section
-    "junction-peak", "edge-excess",
+    "junction-peak", "edge-excess", "joint-excess",
     # both: the user's own hand value
     "hand-value",
 })

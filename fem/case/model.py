@@ -13,7 +13,7 @@ from classical.units import stress_unit
 
 __all__ = [
     "Case", "Units", "Material", "Hole", "Cutout", "Zone", "Placement", "Support", "Load",
-    "Refine", "MeshSpec", "Check", "BeamGeometry", "SectionGeometry", "SCHEMA", "EDGES",
+    "Refine", "MeshSpec", "Check", "Joint", "BeamGeometry", "SectionGeometry", "SCHEMA", "EDGES",
     "METHODS", "SECTION_METHODS", "THIN_WALL_SHAPES", "SECTION_SHAPES", "FIXES",
     "DISTRIBUTIONS", "MAX_NAME", "MAX_NU_STRAIN",
 ]
@@ -41,6 +41,7 @@ SECTION_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
     "tee": (("depth", "flange_width", "flange_thickness", "web_thickness"), ("root_radius",)),
     "angle": (("leg_x", "leg_y", "thickness"), ()),
     "polygon": (("points",), ("holes",)),
+    "built-up": (("plates",), ()),  # [[geometry.plates]], unioned (fem.case.plates)
 }
 
 
@@ -140,11 +141,31 @@ class MeshSpec:
 
 
 @dataclass(frozen=True)
+class Joint:
+    """A straight joint line across a section (weld throat, bolt row, glue line).
+
+    ``capacity`` is per fastener [force], ``spacing`` along the member [length],
+    ``throat`` the weld throat [length] of each of ``welds`` welds.
+    """
+
+    name: str
+    start: tuple[float, float]
+    end: tuple[float, float]
+    capacity: float | None = None
+    spacing: float | None = None
+    throat: float | None = None
+    welds: int = 1
+    key: str = ""
+
+
+@dataclass(frozen=True)
 class Check:
     method: str = "shear-formula"
     cuts: tuple[float, ...] | None = None
     tolerance: float = 0.05
     hand_value: float | None = None
+    joints: tuple[Joint, ...] = ()   # sections: [[check.joints]] (fem.case.plates)
+    planes: tuple[float, ...] = ()   # beams: horizontal planes y (fem.member.planes)
 
 
 @dataclass(frozen=True)

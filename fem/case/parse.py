@@ -47,6 +47,7 @@ from fem.case.model import (
     Zone,
 )
 from fem.case.outline import validate_geometry
+from fem.case.plates import read_joints, read_plates, validate_planes
 from fem.case.reader import Table, as_point, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
@@ -133,6 +134,7 @@ def _parse(text: str, file: str) -> Case:
                 shear=shear, file=file, schema=schema)
     if kind == "beam":
         validate_geometry(case)
+        validate_planes(case)
     else:
         validate_section(case)
     check_size(case)
@@ -215,8 +217,11 @@ def _check(t: Table | None, kind: str) -> Check:
         raise t.error("cuts", "is empty; leave it out for the automatic set")
     tol = t.number("tolerance", 0.05, low=0.0, high=1.0)
     hv = t.number("hand_value", None, low=0.0, low_open=True)
+    joints = read_joints(t) if kind == "section" else ()
+    planes = t.numbers("planes", ()) if beam else ()
     t.close()
-    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv)
+    return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv, joints=joints,
+                 planes=planes)
 
 
 def _beam_geometry(t: Table) -> BeamGeometry:
@@ -327,7 +332,9 @@ def _section_geometry(t: Table) -> SectionGeometry:
     for k in required + optional:
         if k not in required and not t.has(k):
             continue
-        if k in ("points", "holes"):
+        if k == "plates":
+            params[k] = read_plates(t)
+        elif k in ("points", "holes"):
             params[k] = _rings(t, k)
         else:
             params[k] = t.number(k, low=0.0, low_open=(k != "root_radius"))

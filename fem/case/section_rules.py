@@ -15,6 +15,7 @@ from typing import Any
 from shapely.geometry import Polygon
 
 from fem.case.model import THIN_WALL_SHAPES, Case, SectionGeometry
+from fem.case.plates import build_up, validate_built_up, validate_joints
 from fem.errors import CaseError
 
 __all__ = ["validate_section", "section_extent", "MIN_RADIUS", "MAX_SIZE"]
@@ -97,7 +98,7 @@ def validate_section(case: Case) -> None:
     """Refuse section dimensions that make no shape; raise `CaseError` naming the key."""
     g = case.section
     p, f = g.params, case.file
-    if g.shape != "polygon":
+    if g.shape not in ("polygon", "built-up"):
         extent = section_extent(g)
         for k, v in p.items():
             if k != "root_radius" and v < MIN_RADIUS * extent:
@@ -121,6 +122,9 @@ def validate_section(case: Case) -> None:
                                                      f"leg ({leg:g})")
     if g.shape == "polygon":
         _polygon(p, f)
+    if g.shape == "built-up":
+        validate_built_up(case)
+    validate_joints(case)
     if case.check.method == "thin-wall" and g.shape not in THIN_WALL_SHAPES:
         raise CaseError(f, "check.method", f"'thin-wall' needs a shape with a centre line "
                                            f"({', '.join(THIN_WALL_SHAPES)}), not {g.shape!r}")
@@ -143,5 +147,8 @@ def section_extent(g: SectionGeometry) -> float:
         return float(max(p["depth"], p["flange_width"]))
     if g.shape == "angle":
         return float(max(p["leg_x"], p["leg_y"]))
-    x0, y0, x1, y1 = Polygon(p["points"]).bounds
+    if g.shape == "built-up":
+        x0, y0, x1, y1 = build_up(p["plates"]).polygon.bounds
+    else:
+        x0, y0, x1, y1 = Polygon(p["points"]).bounds
     return float(max(x1 - x0, y1 - y0))

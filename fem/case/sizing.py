@@ -30,6 +30,7 @@ from shapely.geometry import Point, Polygon
 from classical.sections import section_outline
 from fem.case.model import Case
 from fem.case.outline import domain_polygon, patches, reentrant_corners
+from fem.case.plates import drawn_section
 from fem.errors import CaseError
 
 __all__ = ["estimate_dofs", "level_size", "check_size", "DENSITY", "PERIMETER", "GRADING"]
@@ -99,7 +100,7 @@ SECTION_GRADING = 0.3    # fem.section.mesh: size growth per unit distance from 
 
 
 def _section_triangles(case: Case, size: float) -> float:
-    g = case.section
+    g = drawn_section(case.section)
     o = section_outline(g.shape, **g.params)
     poly = Polygon(o.outer, list(o.holes))
     per_h2 = poly.area + PERIMETER * poly.length * size

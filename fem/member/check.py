@@ -25,6 +25,7 @@ from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
 from fem.member.envelope import member_envelope, section_peaks
 from fem.member.level import ExcludedZone, Level, excluded_zones, run_level
+from fem.member.planes import member_planes, plane_findings
 from fem.progress import Progress, as_progress
 from fem.results import (
     ConvergenceResult,
@@ -117,6 +118,10 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     result = _result(case, levels, cuts, peak, findings, verdict.word, quantities, gov,
                      bool(singular), converged)
     result.envelope = envelope
+    planes = member_planes(case, fin, zones)
+    if planes:
+        result.planes = [p.to_dict() for p in planes]
+        result.findings += plane_findings(planes, tol)
     return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
 
 

@@ -15,10 +15,17 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
 
         paths = write_beam_figures(res.case, res.run.finest, res.result.cuts, folder,
                                    envelope=getattr(res.result, "envelope", None))
+        if getattr(res.result, "planes", None):
+            from fem.report.plane_figures import plot_planes
+
+            paths.append(plot_planes(res.result.planes, res.result.units, res.case.name,
+                                     Path(folder) / "planes.png"))
     else:
         from fem.report.section_figures import write_section_figures
+        from fem.report.wall_figures import write_wall_figures
 
         paths = write_section_figures(res.case, res.run, folder)
+        paths += write_wall_figures(res.case, res.run, folder)
     from fem.report.convergence_figure import convergence_figure, has_study
 
     if has_study(res.result.convergence):

@@ -22,6 +22,7 @@ from classical.bending import shear_yield
 from fem.report.blocks import Block, Note, Section, Table, sci
 from fem.report.convergence_figure import quantity_label
 from fem.report.html import render_html
+from fem.report.joint_note import joint_section, plane_section
 from fem.report.pdf import write_pdf
 from fem.report.section_note import (
     section_comparison,
@@ -344,6 +345,13 @@ _CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), 
              "section-shear": "Shear stress magnitude |τ| over the section under the case's "
                               "shear, with the shear flow (arrows) and the FE peak.",
              "neutral-axis-profile": "FE and hand shear stress along the neutral axis.",
+             "section-flow": "Shear flow over the section: arrows give the direction and size "
+                             "of τ, colour |τ|; centroid (+), shear centre (×) and the joint "
+                             "lines with their FE shear flow.",
+             "planes": "Longitudinal shear per unit length on each plane (check.planes): "
+                       "FE τxy·t against VQ/I along the member, excluded zones greyed.",
+             "wall-flow": "Shear flow along each wall's centre line: the FE stress averaged "
+                          "through the wall against thin-wall theory (Megson, Ch. 16-17).",
              "convergence": "Convergence: the governing FE figure against element size with "
                             "the extrapolated value and the GCI band; every tracked quantity's "
                             "distance from its extrapolated value."}
@@ -368,7 +376,9 @@ def design_note(res: Any, figures: list[Path]) -> Note:
         sections.append(_fe(res))
     else:
         sections.append(section_fe(res))
-    sections += [_comparison(res), _convergence(res), _assumptions(res)]
+    sections.append(_comparison(res))
+    sections += [j for j in (joint_section(res), plane_section(res)) if j is not None]
+    sections += [_convergence(res), _assumptions(res)]
     figs = [(Path(p), _caption(res, Path(p))) for p in figures if Path(p).suffix == ".png"]
     return Note(title=r.title, subtitle=f"case {r.case} · {r.kind} check · shearcheck",
                 verdict=r.verdict, sections=sections, figures=figs)

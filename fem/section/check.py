@@ -45,7 +45,8 @@ def _levels(case: Case, progress: Callable[[str], None] | None) -> list[SectionC
                                  nu=case.material.nu, Vx=case.shear[0], Vy=case.shear[1],
                                  size=size, order=case.mesh.order, method=case.check.method,
                                  tolerance=case.check.tolerance,
-                                 hand_value=case.check.hand_value))
+                                 hand_value=case.check.hand_value,
+                                 joints=case.check.joints))
     return out
 
 
@@ -141,6 +142,9 @@ def _result(case: Case, levels: list[SectionCheck], sizes: list[float], study: _
             singular=study.singular, converged=study.converged, quantity="section tau_max",
             dofs=[lv.mesh.dofs for lv in levels],
             quantities={"section tau_max outside corners": {
-                "values": [lv.tau_max_regular for lv in levels]}}),
+                "values": [lv.tau_max_regular for lv in levels]},
+                **{f"{j.name} q_fe": {"values": [lv.joints[k].q_fe for lv in levels]}
+                   for k, j in enumerate(levels[-1].joints)}}),
         equilibrium=Equilibrium(**d["equilibrium"]), section=d["section"],
-        hand_method=levels[-1].method, tolerance=case.check.tolerance)
+        hand_method=levels[-1].method, tolerance=case.check.tolerance,
+        joints=d.get("joints"))

@@ -33,7 +33,7 @@ from classical.thinwall import (
 )
 from fem.case.model import THIN_WALL_SHAPES
 
-__all__ = ["HandChoice", "THIN_WALL_RATIO", "CENTRELINE_SHAPES", "choose_method",
+__all__ = ["HandChoice", "THIN_WALL_RATIO", "CENTRELINE_SHAPES", "centreline", "choose_method",
            "thin_wall_ratio", "thin_wall_peak"]
 
 # Thin-wall theory drops terms of order t/b (the walls' own t^3 inertia, the overlap of the
@@ -99,9 +99,21 @@ def choose_method(shape: str, params: dict, method: str = "auto") -> HandChoice:
             + " follows the wall, where cuts parallel to an axis need not be across it"
             + ("" if closed or shape == "angle" else "; root radii are not in the model")))
     why = ("a drawn polygon (no centre-line model)" if shape == "polygon" else
+           "a built-up section of plates (no centre-line model)" if shape == "built-up" else
            f"a solid {shape}" if ratio is None else
            f"walls too thick for thin-wall theory (wall/size {ratio:.3g} > {THIN_WALL_RATIO:g})")
     return HandChoice("shear-formula", f"{why}: tau = VQ/(Ib) on the worst cut")
+
+
+def centreline(shape: str, params: dict) -> tuple[WallSegment, ...]:
+    """The wall centre lines of a thin-walled shape in the mesh's frame (open shapes and
+    box; a tube has no straight walls)."""
+    if shape == "box":
+        pts = box_centreline(params["width"], params["depth"], params["wall"])
+        return tuple(WallSegment(pts[k], pts[(k + 1) % 4], params["wall"]) for k in range(4))
+    if shape not in OPEN_SHAPES:
+        raise ValueError(f"no straight centre-line model for shape {shape!r}")
+    return _open_segments(shape, params)
 
 
 def _open_segments(shape: str, p: dict) -> tuple[WallSegment, ...]:

@@ -16,8 +16,10 @@ from classical.sections import (
 )
 from classical.shear import average_shear, direct_shear, max_shear_formula
 from fem.case.model import Case
+from fem.case.plates import drawn_section
 from fem.results import Result, Timings
 from fem.section.hand_method import choose_method, thin_wall_peak
+from fem.section.joints import default_joints, hand_joint_lines
 
 __all__ = ["section_hand_result"]
 
@@ -28,7 +30,7 @@ def _units(case: Case) -> dict[str, str]:
 
 def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     """Section properties and hand shear stresses of a section case."""
-    g = case.section
+    g = drawn_section(case.section)
     outline = section_outline(g.shape, **g.params)
     p = polygon_properties(outline)
     Vx, Vy = case.shear
@@ -37,7 +39,7 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     mx = max_shear_formula(outline, abs(Vy)) if Vy else None
     tau_formula = mx.tau_max if mx is not None else float("nan")
     avg = average_shear(V, p.A)
-    choice = choose_method(g.shape, dict(g.params), case.check.method)
+    choice = choose_method(case.section.shape, dict(g.params), case.check.method)
     method = choice.method
     thin = thin_wall_peak(g.shape, dict(g.params), Vx, Vy) if method == "thin-wall" else None
     if thin is not None:
@@ -49,7 +51,9 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     else:
         tau_hand = avg if method == "average" else direct_shear(V, p.A, 1)
     lines = [f"Hand calculation: {case.title} ({case.name})",
-             f"Section {g.shape} {g.params}; units {L}, {F}; stress {S}",
+             (f"Section built-up of {len(case.section.params['plates'])} plates (one "
+              f"material), outline {g.params['points']}" if case.section.shape == "built-up"
+              else f"Section {g.shape} {g.params}") + f"; units {L}, {F}; stress {S}",
              f"  A = {p.A:.6g} {L}2, centroid = ({p.cx:.5g}, {p.cy:.5g}) {L}",
              f"  Ixx = {p.Ixx:.6g}, Iyy = {p.Iyy:.6g}, Ixy = {p.Ixy:.6g} {L}4",
              f"  shear V = [{Vx:g}, {Vy:g}] {F}"]
@@ -61,6 +65,10 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     if thin is not None:
         lines.append(f"  thin-walled shear flow along the centre line: peak |q|/t = "
                      f"{thin.tau:.4g} {S} at ({thin.at[0]:.4g}, {thin.at[1]:.4g}) {L}")
+    lines += hand_joint_lines(outline, p, default_joints(case.section.shape,
+                                                         dict(case.section.params),
+                                                         case.check.joints),
+                              (Vx, Vy), L, F, S)
     lines.append(f"  hand method: {method} ({choice.reason})")
     lines.append(f"  average V/A = {V:.6g}/{p.A:.6g} = {avg:.4g} {S}")
     if method in ("single-shear", "double-shear"):

@@ -35,16 +35,19 @@ from __future__ import annotations
 
 import math
 import time
-from dataclasses import asdict, dataclass, field
+from collections.abc import Sequence
+from dataclasses import asdict, dataclass, field, replace
 
 import numpy as np
 
-from classical.sections import Outline, chord_segments, polygon_properties
+from classical.sections import Outline, SectionProperties, chord_segments, polygon_properties
 from classical.shear import average_shear, direct_shear, max_shear_formula, shear_profile
-from fem.case.model import SECTION_METHODS
+from fem.case.model import SECTION_METHODS, Joint, SectionGeometry
+from fem.case.plates import drawn_section
 from fem.results import Finding, MeshInfo
-from fem.section.hand_method import choose_method, thin_wall_peak
-from fem.section.mesh import mesh_section, section_shape
+from fem.section.hand_method import HandChoice, choose_method, thin_wall_peak
+from fem.section.joints import JointFlow, default_joints, joint_findings, joint_flows
+from fem.section.mesh import SectionMesh, SectionShape, mesh_section, section_shape
 from fem.section.solve import SectionSolution, solve_section
 
 __all__ = ["CutProfile", "SectionCheck", "check_section", "METHODS"]
@@ -104,6 +107,7 @@ class SectionCheck:
     verdict: str
     findings: tuple[Finding, ...]
     solution: SectionSolution | None = field(default=None, repr=False, compare=False)
+    joints: tuple[JointFlow, ...] = ()
 
     def to_dict(self) -> dict:
         """The ``section`` object of results.json (contract keys first, then extras)."""
@@ -138,7 +142,8 @@ class SectionCheck:
                                 "reactions": list(self.resultant["fe"]),
                                 "relative_error": self.resultant["relative_error"]},
                 "verdict": self.verdict, "findings": [asdict(f) for f in self.findings],
-                "timings": dict(self.timings)}
+                "timings": dict(self.timings),
+                **({"joints": [j.to_dict() for j in self.joints]} if self.joints else {})}
 
 
 def _rotated(outline: Outline, c: tuple[float, float], phi: float) -> Outline:
@@ -186,10 +191,207 @@ def _near(p: np.ndarray, pts: np.ndarray, r: float) -> bool:
     return len(pts) > 0 and float(np.min(np.linalg.norm(pts - p, axis=1))) <= r
 
 
+@dataclass(frozen=True)
+class _FePeaks:
+    """The FE peak |tau| anywhere and outside the discs around sharp re-entrant corners."""
+
+    peak: float
+    at: np.ndarray
+    peak_regular: float
+    at_regular: np.ndarray
+    sharp: np.ndarray
+
+
+@dataclass(frozen=True)
+class _HandSide:
+    """The hand values and the neutral-axis frame their profiles are taken in."""
+
+    tau_max: float            # shear formula (or thin-wall) peak
+    tau_chord: float          # worst cut parallel to an axis
+    tau_avg: float
+    hand: float               # the chosen method's value
+    props: SectionProperties  # polygon_properties of the outline
+    o_na: Outline             # outline in the neutral-axis frame
+    frame: tuple              # (centroid, d along the axis, n normal to it)
+    v_eff: float              # |(a, b)| I_n: the generalised formula's shear
+    phi: float                # angle of the neutral axis
+
+
+def _solved_shear(method: str, Vx: float, Vy: float) -> tuple[float, float]:
+    """The shear the section is solved for: the pin force shared by two planes for
+    ``double-shear``, else (Vx, Vy)."""
+    f = 0.5 if method == "double-shear" else 1.0
+    return (f * Vx, f * Vy)
+
+
+def _fe_peaks(sol: SectionSolution, geom: SectionShape, Vs: tuple[float, float],
+              size: float) -> _FePeaks:
+    """Peak |tau| at the element corners, anywhere and outside discs of radius
+    max(size, 0.05 sqrt(A)) around sharp re-entrant corners (fixed with refinement, so
+    verdicts stay put)."""
+    corners = sol.corners.reshape(-1, 2)
+    mag = np.linalg.norm(sol.stress(*Vs), axis=2).ravel()
+    k = int(np.argmax(mag))
+    sharp = geom.sharp_reentrant_corners()
+    regular = np.ones(len(mag), dtype=bool)
+    r_ex = max(size, 0.05 * math.sqrt(sol.A))
+    for q in sharp:
+        regular &= np.linalg.norm(corners - q, axis=1) > r_ex
+    kr = int(np.flatnonzero(regular)[np.argmax(mag[regular])])
+    return _FePeaks(float(mag[k]), corners[k], float(mag[kr]), corners[kr], sharp)
+
+
+def _hand_side(geom: SectionShape, sol: SectionSolution, shape: str, params: dict, method: str,
+               V: tuple[float, float], Vs: tuple[float, float]) -> _HandSide:
+    """The hand values (module doc) and the neutral-axis frame: the FE bending-rate
+    coefficients give the axis, the hand Q comes from the polygon."""
+    hp = polygon_properties(geom.outline)
+    tau_avg = average_shear(math.hypot(*V), hp.A) if method != "double-shear" else \
+        direct_shear(math.hypot(*V), hp.A, planes=2)
+    Iinv = np.linalg.inv([[sol.Iyy, sol.Ixy], [sol.Ixy, sol.Ixx]])
+    ab = Iinv @ (np.array(Vs) / np.hypot(*Vs))  # direction only: no underflow for tiny V
+    n = ab / np.linalg.norm(ab)
+    d = np.array([n[1], -n[0]])
+    phi = math.atan2(d[1], d[0])
+    ab_h = np.linalg.inv([[hp.Iyy, hp.Ixy], [hp.Ixy, hp.Ixx]]) @ np.array(Vs)
+    o_na = _rotated(geom.outline, (hp.cx, hp.cy), phi)
+    frame = (np.array(sol.centroid), d, n)
+    v_eff = float(np.linalg.norm(ab_h)) * polygon_properties(o_na).Ixx  # |(a, b)| I_n
+    tau_sf, theta = _shear_formula_peak(geom.outline, Vs)
+    if min(abs(math.sin(phi - theta)), abs(math.cos(phi - theta))) > 1e-9:  # other cuts
+        tau_sf = max(tau_sf, _peak(geom.outline, (hp.cx, hp.cy), phi, v_eff))
+    tau_chord = tau_sf
+    if method == "thin-wall":
+        tau_sf = thin_wall_peak(shape, params, *Vs).tau
+    hand = tau_sf if method in ("shear-formula", "thin-wall") else tau_avg
+    return _HandSide(tau_sf, tau_chord, tau_avg, hand, hp, o_na, frame, v_eff, phi)
+
+
+def _profiles(sol: SectionSolution, hs: _HandSide, Vs: tuple[float, float]
+              ) -> tuple[CutProfile, tuple[CutProfile, ...]]:
+    """FE tau . n along the neutral axis and along cuts parallel to it at 0, 1/4, 1/2
+    and 3/4 of the way to each extreme fibre."""
+    na = _cut(sol, hs.o_na, hs.frame, hs.v_eff, 0.0, Vs, 201)
+    eta = np.concatenate([r[:, 1] for r in hs.o_na.rings])
+    levels = sorted({*(fr * eta.max() for fr in (0.25, 0.5, 0.75)),
+                     *(fr * eta.min() for fr in (0.25, 0.5, 0.75)), 0.0})
+    return na, tuple(_cut(sol, hs.o_na, hs.frame, hs.v_eff, e, Vs, 101) for e in levels)
+
+
+def _singular_finding(geom: SectionShape, pk: _FePeaks, hand: float, size: float
+                      ) -> Finding | None:
+    """``singular`` when the raw peak sits at a sharp re-entrant corner."""
+    if not _near(pk.at, pk.sharp, 1e-9 * size + 0.5 * size):
+        return None
+    ratio_raw, ratio = pk.peak / hand, pk.peak_regular / hand
+    kc = int(np.argmin(np.linalg.norm(pk.sharp - pk.at, axis=1)))
+    alpha = float(geom.sharp_reentrant_angles()[kc])
+    return Finding("singular", [float(pk.at[0]), float(pk.at[1])], ratio_raw,
+        f"The FE peak {pk.peak:.4g} sits at a sharp re-entrant corner (material angle "
+        f"{math.degrees(alpha):.0f} degrees), where the elastic shear stress is singular, "
+        f"growing like r^({math.pi / alpha - 1:.3f}) towards the corner: it keeps growing "
+        f"as the mesh is refined, so its value here depends on the mesh. The headline "
+        f"ratio uses the peak away from the corners, {pk.peak_regular:.4g} ({ratio:.3f} x "
+        f"the hand value); the corner peak is {ratio_raw:.3f} x. Model the real root radius "
+        f"(fillet) of the corner to get its finite peak.")
+
+
+def _edge_finding(na: CutProfile, method: str, lim: float) -> Finding | None:
+    """``edge-excess`` when tau at an end of the neutral axis exceeds the chord formula."""
+    na_tau = np.asarray(na.tau_fe)
+    s = np.asarray(na.s)
+    ends = np.zeros(len(s), dtype=bool)
+    ends[[0, -1]] = True
+    jumps = np.flatnonzero(np.diff(s) > 2 * np.median(np.diff(s)))
+    ends[jumps] = ends[jumps + 1] = True
+    k_end = int(np.flatnonzero(ends)[np.argmax(na_tau[ends])])
+    edge_ratio = float(na_tau[k_end] / na.tau_hand) if na.tau_hand > 0 else 0.0
+    p_end = (float(na.x[k_end]), float(na.y[k_end]))
+    if not (edge_ratio > lim and method != "thin-wall"):  # a chord-formula finding only
+        return None
+    return Finding("edge-excess", list(p_end), edge_ratio,
+        f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
+        f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
+        f"the formula gives the average along the cut and assumes the stress uniform "
+        f"across the width, which fails for wide chords (Poisson effect: for a square "
+        f"about 1.13 x, for width = 4 x depth about 2 x, Timoshenko & Goodier).")
+
+
+def _peak_finding(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandSide,
+                  method: str, size: float, lim: float, edge_flagged: bool
+                  ) -> Finding | None:
+    """``junction-peak`` (at a flange-web junction or re-entrant corner) or
+    ``method-excess`` (elsewhere) when the regular peak exceeds the hand value."""
+    ratio, at_r, peak_r, hand = pk.peak_regular / hs.hand, pk.at_regular, pk.peak_regular, \
+        hs.hand
+    if not ratio > lim:
+        return None
+    fillets = geom.filleted_reentrant_corners()
+    r_max = max((float(r.radii.max()) for r in geom.rings if r.circle is None and r.radii.size),
+                default=0.0)
+    if _near(at_r, fillets, 2.0 * r_max + size) or _near(at_r, pk.sharp, 3.0 * size):
+        return Finding("junction-peak", [float(at_r[0]), float(at_r[1])], ratio,
+            f"The peak {peak_r:.4g} is at a flange-web junction / re-entrant corner, "
+            f"{ratio:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
+            f"over the cut and misses the concentration where the section changes width.")
+    n = hs.frame[2]
+    if edge_flagged and abs((at_r - sol.centroid) @ n) < size:
+        return None
+    return Finding("method-excess", [float(at_r[0]), float(at_r[1])], ratio,
+        f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio:.3f} x "
+        f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
+        f"over the whole section), and the elastic stress here is not uniform across "
+        f"the cuts through this point.")
+
+
+def _user_finding(pk: _FePeaks, hand_value: float | None, lim: float) -> Finding | None:
+    """``hand-value`` when the regular peak exceeds the user's own hand value."""
+    user_ratio = pk.peak_regular / hand_value if hand_value else None
+    if user_ratio is None or not user_ratio > lim:
+        return None
+    at_r = pk.at_regular
+    return Finding("hand-value", [float(at_r[0]), float(at_r[1])], user_ratio,
+        f"The FE peak {pk.peak_regular:.4g} exceeds your hand value {hand_value:.4g} by "
+        f"{100 * (user_ratio - 1):.1f} %.")
+
+
+def _level_verdict(pk: _FePeaks, hand: float, hand_value: float | None, lim: float,
+                   singular: bool, joints_excess: bool = False) -> str:
+    """This one mesh's word (the case's verdict is `fem.verdict.decide` over the levels)."""
+    ratio, ratio_raw = pk.peak_regular / hand, pk.peak / hand
+    unsafe = ratio > lim or (hand_value is not None and pk.peak_regular / hand_value > lim) \
+        or joints_excess
+    governs = singular and (ratio_raw > lim or (hand_value is not None
+                                                and pk.peak > lim * hand_value))
+    return "unsafe" if unsafe else ("inconclusive" if governs else "holds")
+
+
+def _findings(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandSide,
+              na: CutProfile, method: str, size: float, tolerance: float,
+              hand_value: float | None, joints: tuple[JointFlow, ...] = ()
+              ) -> tuple[list[Finding], str]:
+    """Every finding of one mesh, in order (joints last), and that mesh's verdict."""
+    lim = 1.0 + tolerance
+    singular = _singular_finding(geom, pk, hs.hand, size)
+    edge = _edge_finding(na, method, lim)
+    found = [singular, edge,
+             _peak_finding(geom, sol, pk, hs, method, size, lim, edge is not None),
+             _user_finding(pk, hand_value, lim)]
+    jf = joint_findings(joints, tolerance)
+    return ([f for f in found if f is not None] + jf,
+            _level_verdict(pk, hs.hand, hand_value, lim, singular is not None,
+                           any(f.kind == "joint-excess" for f in jf)))
+
+
 def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: float,
                   size: float, order: int = 2, method: str = "auto",
-                  tolerance: float = 0.05, hand_value: float | None = None) -> SectionCheck:
+                  tolerance: float = 0.05, hand_value: float | None = None,
+                  joints: Sequence[Joint] = ()) -> SectionCheck:
     """Solve a section for shear (Vx, Vy) through its shear centre and compare with hand.
+
+    The recipe: choose the hand method -> mesh and solve -> FE peaks (`_fe_peaks`) ->
+    hand side (`_hand_side`) -> profiles (`_profiles`) -> joints (`joint_flows`) ->
+    findings and this mesh's verdict (`_findings`) -> `SectionCheck` (`_assemble`).
 
     Parameters
     ----------
@@ -209,6 +411,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         FE above the hand value by more than this fraction -> ``unsafe``.
     hand_value
         Optional user's own peak shear stress [stress]; exceeded -> ``unsafe``.
+    joints
+        Joint lines (:class:`fem.case.model.Joint`); none given on a ``built-up``
+        section -> every plate interface (:func:`fem.section.joints.default_joints`).
 
     Returns
     -------
@@ -225,124 +430,47 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     if Vx == 0.0 and Vy == 0.0:
         raise ValueError("the shear [Vx, Vy] must not be zero")
     choice = choose_method(shape, params, method)
-    method = choice.method
-    geom = section_shape(shape, **params)
+    drawn = drawn_section(SectionGeometry(shape, params))
+    geom = replace(section_shape(drawn.shape, **drawn.params), shape=shape)
     smesh = mesh_section(geom, size, order)
     sol = solve_section(smesh, nu)
     t0 = time.perf_counter()
-    f = 0.5 if method == "double-shear" else 1.0
-    Vs = (f * Vx, f * Vy)
-    hp = polygon_properties(geom.outline)
-    tau_avg = average_shear(math.hypot(Vx, Vy), hp.A) if f == 1.0 else \
-        direct_shear(math.hypot(Vx, Vy), hp.A, planes=2)
+    Vs = _solved_shear(choice.method, Vx, Vy)
+    pk = _fe_peaks(sol, geom, Vs, size)
+    hs = _hand_side(geom, sol, shape, params, choice.method, (Vx, Vy), Vs)
+    na, cuts = _profiles(sol, hs, Vs)
+    flows = joint_flows(sol, geom.outline, hs.props, default_joints(shape, params, joints), Vs)
+    findings, verdict = _findings(geom, sol, pk, hs, na, choice.method, size, tolerance,
+                                  hand_value, flows)
+    return replace(_assemble(shape, choice, geom, smesh, sol, pk, hs, na, cuts, findings,
+                             verdict, E=E, V=(Vx, Vy), Vs=Vs, size=size, order=order,
+                             tolerance=tolerance, hand_value=hand_value,
+                             t_post=time.perf_counter() - t0), joints=flows)
 
-    corners = sol.corners.reshape(-1, 2)
-    mag = np.linalg.norm(sol.stress(*Vs), axis=2).ravel()
-    k = int(np.argmax(mag))
-    peak, at = float(mag[k]), corners[k]
-    sharp = geom.sharp_reentrant_corners()
-    regular = np.ones(len(mag), dtype=bool)   # outside discs around sharp corners
-    r_ex = max(size, 0.05 * math.sqrt(sol.A))  # fixed with refinement: verdicts stay put
-    for q in sharp:
-        regular &= np.linalg.norm(corners - q, axis=1) > r_ex
-    kr = int(np.flatnonzero(regular)[np.argmax(mag[regular])])
-    peak_r, at_r = float(mag[kr]), corners[kr]
 
-    # neutral-axis frame from the FE bending-rate coefficients, hand Q on the polygon
-    Iinv = np.linalg.inv([[sol.Iyy, sol.Ixy], [sol.Ixy, sol.Ixx]])
-    ab = Iinv @ (np.array(Vs) / np.hypot(*Vs))  # direction only: no underflow for tiny V
-    n = ab / np.linalg.norm(ab)
-    d = np.array([n[1], -n[0]])
-    phi = math.atan2(d[1], d[0])
-    ab_h = np.linalg.inv([[hp.Iyy, hp.Ixy], [hp.Ixy, hp.Ixx]]) @ np.array(Vs)
-    o_na = _rotated(geom.outline, (hp.cx, hp.cy), phi)
-    frame = (np.array(sol.centroid), d, n)
-    v_eff = float(np.linalg.norm(ab_h)) * polygon_properties(o_na).Ixx  # |(a, b)| I_n
-    tau_sf, theta = _shear_formula_peak(geom.outline, Vs)
-    if min(abs(math.sin(phi - theta)), abs(math.cos(phi - theta))) > 1e-9:  # other cuts
-        tau_sf = max(tau_sf, _peak(geom.outline, (hp.cx, hp.cy), phi, v_eff))
-    tau_chord = tau_sf
-    if method == "thin-wall":
-        tau_sf = thin_wall_peak(shape, params, *Vs).tau
-    hand = tau_sf if method in ("shear-formula", "thin-wall") else tau_avg
-    na = _cut(sol, o_na, frame, v_eff, 0.0, Vs, 201)
-    eta = np.concatenate([r[:, 1] for r in o_na.rings])
-    levels = sorted({*(fr * eta.max() for fr in (0.25, 0.5, 0.75)),
-                     *(fr * eta.min() for fr in (0.25, 0.5, 0.75)), 0.0})
-    cuts = tuple(_cut(sol, o_na, frame, v_eff, e, Vs, 101) for e in levels)
-
-    findings = []
-    ratio_raw, ratio = peak / hand, peak_r / hand
-    lim = 1.0 + tolerance
-    singular = _near(at, sharp, 1e-9 * size + 0.5 * size)
-    if singular:
-        kc = int(np.argmin(np.linalg.norm(sharp - at, axis=1)))
-        alpha = float(geom.sharp_reentrant_angles()[kc])
-        findings.append(Finding("singular", [float(at[0]), float(at[1])], ratio_raw,
-            f"The FE peak {peak:.4g} sits at a sharp re-entrant corner (material angle "
-            f"{math.degrees(alpha):.0f} degrees), where the elastic shear stress is singular, "
-            f"growing like r^({math.pi / alpha - 1:.3f}) towards the corner: it keeps growing "
-            f"as the mesh is refined, so its value here depends on the mesh. The headline "
-            f"ratio uses the peak away from the corners, {peak_r:.4g} ({ratio:.3f} x the "
-            f"hand value); the corner peak is {ratio_raw:.3f} x. Model the real root radius "
-            f"(fillet) of the corner to get its finite peak."))
-    na_tau = np.asarray(na.tau_fe)
-    s = np.asarray(na.s)
-    ends = np.zeros(len(s), dtype=bool)
-    ends[[0, -1]] = True
-    jumps = np.flatnonzero(np.diff(s) > 2 * np.median(np.diff(s)))
-    ends[jumps] = ends[jumps + 1] = True
-    k_end = int(np.flatnonzero(ends)[np.argmax(na_tau[ends])])
-    edge_ratio = float(na_tau[k_end] / na.tau_hand) if na.tau_hand > 0 else 0.0
-    p_end = (float(na.x[k_end]), float(na.y[k_end]))
-    edge_flagged = edge_ratio > lim and method != "thin-wall"  # a chord-formula finding only
-    if edge_flagged:
-        findings.append(Finding("edge-excess", list(p_end), edge_ratio,
-            f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
-            f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
-            f"the formula gives the average along the cut and assumes the stress uniform "
-            f"across the width, which fails for wide chords (Poisson effect: for a square "
-            f"about 1.13 x, for width = 4 x depth about 2 x, Timoshenko & Goodier)."))
-    fillets = geom.filleted_reentrant_corners()
-    r_max = max((float(r.radii.max()) for r in geom.rings if r.circle is None and r.radii.size),
-                default=0.0)
-    near_fillet = _near(at_r, fillets, 2.0 * r_max + size)
-    near_corner = _near(at_r, sharp, 3.0 * size)
-    if ratio > lim and (near_fillet or near_corner):
-        findings.append(Finding("junction-peak", [float(at_r[0]), float(at_r[1])], ratio,
-            f"The peak {peak_r:.4g} is at a flange-web junction / re-entrant corner, "
-            f"{ratio:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
-            f"over the cut and misses the concentration where the section changes width."))
-    elif ratio > lim and not (edge_flagged and abs((at_r - sol.centroid) @ n) < size):
-        findings.append(Finding("method-excess", [float(at_r[0]), float(at_r[1])], ratio,
-            f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio:.3f} x "
-            f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
-            f"over the whole section), and the elastic stress here is not uniform across "
-            f"the cuts through this point."))
-    user_ratio = peak_r / hand_value if hand_value else None
-    if user_ratio is not None and user_ratio > lim:
-        findings.append(Finding("hand-value", [float(at_r[0]), float(at_r[1])], user_ratio,
-            f"The FE peak {peak_r:.4g} exceeds your hand value {hand_value:.4g} by "
-            f"{100 * (user_ratio - 1):.1f} %."))
-    unsafe = ratio > lim or (user_ratio is not None and user_ratio > lim)
-    governs = singular and (ratio_raw > lim or (hand_value is not None and peak > lim * hand_value))
-    verdict = "unsafe" if unsafe else ("inconclusive" if governs else "holds")
-
+def _assemble(shape: str, choice: HandChoice, geom: SectionShape, smesh: SectionMesh,
+              sol: SectionSolution,
+              pk: _FePeaks, hs: _HandSide, na: CutProfile, cuts: tuple[CutProfile, ...],
+              findings: list[Finding], verdict: str, *, E: float, V: tuple[float, float],
+              Vs: tuple[float, float], size: float, order: int, tolerance: float,
+              hand_value: float | None, t_post: float) -> SectionCheck:
+    """The `SectionCheck` of one mesh from its named parts."""
     fe_res = sol.resultant @ np.array(Vs)
     rel = float(np.linalg.norm(fe_res - Vs) / np.linalg.norm(Vs))
-    G = E / (2.0 * (1.0 + nu))
-    t_post = time.perf_counter() - t0
+    hp = hs.props
     timings = {"mesh": smesh.seconds, "assemble": sol.timings["assemble"],
                "solve": sol.timings["solve"], "post": sol.timings["post"] + t_post}
     return SectionCheck(
-        shape=shape, method=method, method_reason=choice.reason, tolerance=tolerance,
-        V=(Vx, Vy), V_solved=Vs,
+        shape=shape, method=choice.method, method_reason=choice.reason, tolerance=tolerance,
+        V=V, V_solved=Vs,
         A=sol.A, I={"xx": sol.Ixx, "yy": sol.Iyy, "xy": sol.Ixy}, centroid=sol.centroid,
-        shear_centre=sol.shear_centre, shear_centre_nu=sol.shear_centre_nu, J=sol.J, G=G,
-        tau_max_fe=peak, tau_at=(float(at[0]), float(at[1])), tau_max_regular=peak_r,
-        tau_at_regular=(float(at_r[0]), float(at_r[1])), tau_max_hand=tau_sf,
-        tau_chord_hand=tau_chord, tau_avg_hand=tau_avg, hand=hand, ratio=ratio,
-        ratio_raw=ratio_raw,
+        shear_centre=sol.shear_centre, shear_centre_nu=sol.shear_centre_nu, J=sol.J,
+        G=E / (2.0 * (1.0 + sol.nu)),
+        tau_max_fe=pk.peak, tau_at=(float(pk.at[0]), float(pk.at[1])),
+        tau_max_regular=pk.peak_regular,
+        tau_at_regular=(float(pk.at_regular[0]), float(pk.at_regular[1])),
+        tau_max_hand=hs.tau_max, tau_chord_hand=hs.tau_chord, tau_avg_hand=hs.tau_avg,
+        hand=hs.hand, ratio=pk.peak_regular / hs.hand, ratio_raw=pk.peak / hs.hand,
         hand_value=hand_value,
         hand_properties={"A": hp.A, "cx": hp.cx, "cy": hp.cy, "Ixx": hp.Ixx, "Iyy": hp.Iyy,
                          "Ixy": hp.Ixy, "I1": hp.I1, "I2": hp.I2, "angle": hp.angle},

@@ -61,6 +61,9 @@ def figures_of(data: dict[str, Any]) -> dict[str, dict[str, Any]]:
         sc = s.get("shear_centre") or [None, None]
         f["section shear_centre x"] = {"value": sc[0], "scale": scale}
         f["section shear_centre y"] = {"value": sc[1], "scale": scale}
+        for j in data.get("joints") or []:   # joint lines (fem.section.joints)
+            f[f"joint {j['name']} q_fe"] = {"value": j["q_fe"]}
+            f[f"joint {j['name']} ratio"] = {"value": j["ratio"]}
         return f
     pk = data.get("peak") or {}
     floor = STRESS_FLOOR * (pk.get("von_mises_max") or 0.0)
@@ -69,6 +72,12 @@ def figures_of(data: dict[str, Any]) -> dict[str, dict[str, Any]]:
         f[f"cut x={c['x']:g} ratio"] = {"value": c["ratio"]}
     f["peak tau_max"] = {"value": pk.get("tau_max"), "scale": floor}
     f["peak von_mises_max"] = {"value": pk.get("von_mises_max")}
+    for p in data.get("planes") or []:   # check.planes (fem.member.planes)
+        k = len(p["x"]) // 4   # a quarter of the way along (mid-length may carry no shear)
+        f[f"plane y={p['y']:g} q_fe quarter"] = {"value": p["q_fe"][k]}
+        f[f"plane y={p['y']:g} total_fe"] = {"value": p["total_fe"],
+                                            "scale": abs(max(p["q_fe"], key=abs))
+                                            * (p["x_range"][1] - p["x_range"][0])}
     return f
 
 
