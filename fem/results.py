@@ -172,6 +172,10 @@ class Result:
     caution: str = CAUTION
     schema: int = 1
     envelope: Envelope | None = None
+    provenance: dict[str, Any] | None = None   # fem.provenance: versions, case hash, time
+    project: dict[str, str] | None = None      # the [project] title block as given
+    deflection: dict[str, Any] | None = None   # informative: FE and hand displacements
+    pdf_skipped: str | None = None             # why report.pdf was not written, if it wasn't
 
     def to_dict(self) -> dict[str, Any]:
         d = to_jsonable(self)
@@ -183,6 +187,9 @@ class Result:
             d.pop("section", None)
         if self.kind == "section" or self.envelope is None:
             d.pop("envelope", None)  # no key rather than null: outputs stay as they were
+        for key in ("provenance", "project", "deflection", "pdf_skipped"):
+            if d.get(key) is None:
+                d.pop(key, None)
         return d
 
 
