@@ -110,8 +110,10 @@ def check(path_or_case: str | Path | Case,
     case = path_or_case if isinstance(path_or_case, Case) else load_case(path_or_case)
     if case.kind == "beam":
         from fem.member.check import check_beam
+        from fem.member.deflection import beam_deflection
 
         beam = check_beam(case, progress=progress)
+        beam.result.deflection = beam_deflection(case, beam.finest)  # informative only
         return _stamp(CheckResult(case=case, result=beam.result, run=beam))
     from fem.section.check import check_section_case
 
