@@ -48,7 +48,8 @@ def run(tmp_path_factory) -> tuple[CheckResult, Path, list[Path]]:
     its own, run from there: the outputs must not name that folder."""
     where = tmp_path_factory.mktemp("case-folder")
     path = where / "stub-bracket.toml"
-    path.write_text(DEMO.read_text(encoding="utf-8") + PROJECT, encoding="utf-8")
+    demo = re.sub(r"\[project\].*?\n\n", "", DEMO.read_text(encoding="utf-8"), flags=re.S)
+    path.write_text(demo + PROJECT, encoding="utf-8")
     case = load_case(path).with_mesh(levels=2, size=24.0)
     case = replace(case, check=replace(case.check, cuts=(35.0, 100.0)))  # beside, through hole
     res = fem.check(case)

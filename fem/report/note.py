@@ -275,14 +275,27 @@ def _verdict_words(res: Any) -> str:
     return f"Verdict {r.verdict}: {reasons.get(r.verdict, '')}."
 
 
-def _findings(res: Any) -> list[Block]:
+def _short(message: str, limit: int = 200) -> str:
+    """A finding's where and how much: its text up to the first ': ' or '; ' (the why
+    follows there), at most about `limit` characters."""
+    head = re.split(r": |; ", message, maxsplit=1)[0].rstrip(".")
+    if len(head) > limit:
+        head = head[:limit].rsplit(" ", 1)[0] + " …"
+    return head + "."
+
+
+def _findings(res: Any) -> tuple[list[Block], Section | None]:
+    """The summary's verdict and findings in short, and the findings in full."""
     r = res.result
     out = [Block(f"{r.verdict.upper()}. {_verdict_words(res)}", f"verdict-{r.verdict}")]
     main = [f for f in r.findings if f.kind != "excluded"]
-    out += [Block(f"{f.kind}: {f.message}", "finding") for f in main]
+    out += [Block(f"{f.kind}: {_short(f.message)}", "finding") for f in main]
     if not main:
         out.append(Block("No findings."))
-    return out
+        return out, None
+    full = Section("Findings in full", [Block(f"{f.kind}: {f.message}", "finding")
+                                        for f in main])
+    return out, full
 
 
 def _excluded(res: Any) -> Table | None:
@@ -417,23 +430,28 @@ def title_block(project: Any) -> list[tuple[str, str]]:
 
 
 def _appendix(res: Any) -> list[Section]:
+    """Provenance (versions, case hash, time) and the case file exactly as run."""
     c, prov = res.case, res.result.provenance or {}
     name = case_file_name(c.file)
     out = []
+    if prov:
+        pairs = [("shearcheck", prov.get("shearcheck")), ("Python", prov.get("python"))]
+        pairs += list((prov.get("packages") or {}).items())
+        pairs += [("run (UTC)", prov.get("run_utc")), ("platform", prov.get("platform"))]
+        half = -(-len(pairs) // 2)
+        left, right = pairs[:half], pairs[half:] + [("", "")] * (2 * half - len(pairs))
+        rows = [[a, str(va), b, str(vb)] for (a, va), (b, vb) in zip(left, right, strict=True)]
+        out.append(Section("Appendix A: provenance", [
+            Table(["software", "version", "software", "version"], rows,
+                  "What produced this note"),
+            Block(f"Case file {prov.get('case_file')}, SHA-256 {prov.get('case_sha256')}; "
+                  f"run {prov.get('run_utc')}.", "small")]))
     if c.text:
-        out.append(Section("Appendix A: the case file", [
+        out.append(Section("Appendix B: the case file", [
             Block(f"The case file {name} exactly as run (SHA-256 "
-                  f"{prov.get('case_sha256') or '–'}); running it with the versions below "
+                  f"{prov.get('case_sha256') or '–'}); running it with the versions above "
                   "reproduces this note.", "small"),
             Block(c.text.replace("\r\n", "\n").rstrip("\n"), "code")]))
-    if prov:
-        rows = [["shearcheck", str(prov.get("shearcheck"))], ["Python", str(prov.get("python"))]]
-        rows += [[k, str(v)] for k, v in (prov.get("packages") or {}).items()]
-        rows += [["case file", str(prov.get("case_file"))],
-                 ["case file SHA-256", str(prov.get("case_sha256"))],
-                 ["run (UTC)", str(prov.get("run_utc"))], ["platform", str(prov.get("platform"))]]
-        out.append(Section("Appendix B: provenance", [Table(["item", "value"], rows,
-                                                            "What produced this note")]))
     return out
 
 
@@ -452,7 +470,8 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     figs = [Figure(p, _caption(res, p)) for p in paths]
     key = _key_figure(figs)
     head, rest = _comparison(res)
-    summary = Section("Summary", _findings(res))
+    short, full = _findings(res)
+    summary = Section("Summary", short)
     if head is not None:
         summary.items.append(head)
     if key is not None:
@@ -462,7 +481,7 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     if excl is not None:
         fe.items.append(excl)
     inputs = _inputs(res)
-    sections = [summary, inputs, _hand(res), fe, rest]
+    sections = [summary, *([full] if full is not None else []), inputs, _hand(res), fe, rest]
     defl = _deflection(res)
     if defl is not None:
         sections.append(defl)

@@ -34,7 +34,6 @@ from reportlab.platypus import (
     Flowable,
     Frame,
     HRFlowable,
-    Image,
     KeepTogether,
     PageBreak,
     PageTemplate,
@@ -123,7 +122,7 @@ def _styles() -> dict[str, ParagraphStyle]:
                                   spaceAfter=0),
         "mono": ParagraphStyle("mono", base, fontName=f["mono"], fontSize=6.5, leading=8.0,
                                spaceAfter=6),
-        "code": ParagraphStyle("code", base, fontName=f["mono"], fontSize=5.9, leading=7.3,
+        "code": ParagraphStyle("code", base, fontName=f["mono"], fontSize=5.6, leading=6.8,
                                spaceAfter=4),
         "mono-head": ParagraphStyle("mono-head", base, fontName=f["mono-bold"], fontSize=6.5,
                                     leading=8.0, spaceAfter=0, keepWithNext=1),
@@ -150,10 +149,9 @@ def _col_widths(t: Table, width: float, font: str, size: float) -> list[float]:
     for j in range(n):
         cells = [r[j] for r in t.rows if j < len(r)]
         body = max([pdfmetrics.stringWidth(c, font, size) for c in cells] or [0.0])
-        word = max([pdfmetrics.stringWidth(w, font, size) for w in t.header[j].split()]
-                   or [0.0])
-        head = pdfmetrics.stringWidth(t.header[j], font, size)
-        nat.append(max(body, min(head, max(word, 0.5 * head))) + pad)
+        word = max([pdfmetrics.stringWidth(w, _fonts()["bold"], size)
+                    for w in t.header[j].split()] or [0.0])
+        nat.append(max(body, word) + pad)   # a header wraps between words, never inside
     if n == 2:  # an item / value list: the value column takes the rest of the line
         first = min(nat[0], 0.34 * width)
         return [first, width - first]
@@ -211,9 +209,10 @@ def _block(b: Block, width: float) -> list[Flowable]:
     if b.style == "formula":
         head, _, rest = b.text.partition("\n")
         return [_pre(head, "mono-head", width), _pre(rest, "mono", width)]
-    if b.style == "code":  # verbatim text in two balanced columns
-        col = 0.5 * width - 8
-        return [BalancedColumns([_pre(b.text, "code", col)], nCols=2, spaceBefore=2,
+    if b.style == "code":  # verbatim text in balanced columns
+        n = 3 if max(len(line) for line in b.text.splitlines() or [""]) <= 100 else 2
+        col = width / n - 8
+        return [BalancedColumns([_pre(b.text, "code", col)], nCols=n, spaceBefore=2,
                                 innerPadding=8)]
     if b.style == "finding":
         kind, _, msg = b.text.partition(": ")
@@ -228,30 +227,47 @@ def _block(b: Block, width: float) -> list[Flowable]:
     return [_p(b.text, "small" if b.style == "small" else "body")]
 
 
-class _FitImage(Image):
-    """An image as large as `max_h` allows, shrunk to the room left on the page down to
-    `min_h` (below that it goes whole to the next page)."""
+class _FigureBlock(Flowable):
+    """A figure and its caption as one piece: the image as large as `max_h` allows, shrunk
+    to the room left on the page down to `min_h`; below that it goes whole to the next page
+    (a figure is never parted from its caption)."""
 
-    def __init__(self, path: Path, width: float, max_h: float, min_h: float,
-                 reserve: float) -> None:
-        self.iw, self.ih = ImageReader(str(path)).getSize()
-        self.max_w, self.max_h, self.min_h, self.reserve = width, max_h, min_h, reserve
-        super().__init__(str(path), width=width, height=max_h)
-        self._size(max_h)
+    GAP = 3.0
 
-    def _size(self, h: float) -> None:
-        scale = min(self.max_w / self.iw, h / self.ih)
-        self.drawWidth, self.drawHeight = self.iw * scale, self.ih * scale
+    def __init__(self, path: Path, caption: Paragraph, max_h: float, min_h: float) -> None:
+        super().__init__()
+        self.path = str(path)
+        self.iw, self.ih = ImageReader(self.path).getSize()
+        self.caption, self.max_h, self.min_h = caption, max_h, min_h
+        self.w = self.h = self.cap_h = 0.0
+
+    def _fit(self, avail_w: float, h: float) -> float:
+        scale = min(avail_w / self.iw, h / self.ih)
+        self.w, self.h = self.iw * scale, self.ih * scale
+        self.cap_h = self.caption.wrap(avail_w, 1e6)[1]
+        return self.h + self.GAP + self.cap_h + self.caption.style.spaceAfter
 
     def wrap(self, avail_w: float, avail_h: float) -> tuple[float, float]:
-        room = avail_h - self.reserve
-        self._size(min(self.max_h, room) if room >= self.min_h else self.max_h)
-        return self.drawWidth, self.drawHeight
+        self.avail_w = avail_w
+        need = self._fit(avail_w, self.max_h)
+        if need > avail_h:
+            extra = self.GAP + self.cap_h + self.caption.style.spaceAfter
+            if avail_h - extra >= self.min_h:
+                need = self._fit(avail_w, min(self.max_h, avail_h - extra))
+        return avail_w, need
+
+    def split(self, avail_w: float, avail_h: float) -> list[Flowable]:
+        return []   # whole on the next page
+
+    def draw(self) -> None:
+        total = self.h + self.GAP + self.cap_h + self.caption.style.spaceAfter
+        x = 0.5 * (self.avail_w - self.w)
+        self.canv.drawImage(self.path, x, total - self.h, self.w, self.h)
+        self.caption.drawOn(self.canv, 0, self.caption.style.spaceAfter)
 
 
 def _figure(f: Figure, number: int, width: float, max_h: float, min_h: float) -> Flowable:
-    img = _FitImage(f.path, width, max_h, min_h, reserve=34.0)
-    return KeepTogether([img, _p(f"Figure {number}. {f.caption}", "caption")])
+    return _FigureBlock(f.path, _p(f"Figure {number}. {f.caption}", "caption"), max_h, min_h)
 
 
 # ------------------------------------------------------------------------------- pages
