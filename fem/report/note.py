@@ -234,10 +234,12 @@ def _deflection(res: Any) -> Section | None:
         return None
     L = res.result.units["length"]
     s = Section("Deflection (informative)")
+    how = (f"Beam theory: {d['method']}." if d.get("hand") is not None else
+           f"No beam-theory value: {d['method'].removeprefix('no hand value: ')}.")
     s.items.append(Block(
         f"Largest FE displacement |u| = {sci(d['max_fe'])} {L} at ({sci(d['at'][0])}, "
         f"{sci(d['at'][1])}) {L}, finest mesh. The deflection does not enter the shear "
-        f"verdict. Hand value: {d['method']}."))
+        f"verdict. {how}"))
     rows = [[r["load"], sci(r["fe"][0], ref=d["max_fe"]), sci(r["fe"][1], ref=d["max_fe"]),
              sci(r["hand"]), "–" if r["ratio"] is None else f"{r['ratio']:.3f}"]
             for r in d.get("loads", [])]
@@ -445,12 +447,10 @@ def _appendix(res: Any) -> list[Section]:
             Table(["software", "version", "software", "version"], rows,
                   "What produced this note"),
             Block(f"Case file {prov.get('case_file')}, SHA-256 {prov.get('case_sha256')}; "
-                  f"run {prov.get('run_utc')}.", "small")]))
+                  f"run {prov.get('run_utc')}. Running the case file of Appendix B with these "
+                  "versions reproduces this note.", "small")]))
     if c.text:
-        out.append(Section("Appendix B: the case file", [
-            Block(f"The case file {name} exactly as run (SHA-256 "
-                  f"{prov.get('case_sha256') or '–'}); running it with the versions above "
-                  "reproduces this note.", "small"),
+        out.append(Section(f"Appendix B: the case file {name}, exactly as run", [
             Block(c.text.replace("\r\n", "\n").rstrip("\n"), "code")]))
     return out
 
@@ -459,9 +459,9 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     """The content of the design note of a finished check.
 
     First page (the summary): the verdict, the findings, the key figure and the comparison
-    table; then the inputs, the hand calculation, the FE model, the rest of the comparison,
-    the convergence study, the other figures two to a page, the assumptions, and the case
-    file and provenance in the appendices.
+    table; then the findings in full, the inputs, the hand calculation, the FE model, the
+    rest of the comparison, the deflection, the convergence study, the assumptions, the
+    other figures two to a page, and the provenance and case file in the appendices.
     """
     r, c = res.result, res.case
     paths = [Path(p) for p in figures if Path(p).suffix == ".png"]
@@ -486,10 +486,10 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     if defl is not None:
         sections.append(defl)
     sections.append(_convergence(res))
+    sections.append(_assumptions(res))
     others = [f for f in figs if f is not key]
     if others:
-        sections.append(Section("Figures", list(others), new_page=True, pair=True))
-    sections.append(_assumptions(res))
+        sections.append(Section("Figures", list(others), pair=True))
     sections += _appendix(res)
     prov = r.provenance or {}
     version = prov.get("shearcheck")

@@ -122,7 +122,7 @@ def _styles() -> dict[str, ParagraphStyle]:
                                   spaceAfter=0),
         "mono": ParagraphStyle("mono", base, fontName=f["mono"], fontSize=6.5, leading=8.0,
                                spaceAfter=6),
-        "code": ParagraphStyle("code", base, fontName=f["mono"], fontSize=5.6, leading=6.8,
+        "code": ParagraphStyle("code", base, fontName=f["mono"], fontSize=5.5, leading=6.6,
                                spaceAfter=4),
         "mono-head": ParagraphStyle("mono-head", base, fontName=f["mono-bold"], fontSize=6.5,
                                     leading=8.0, spaceAfter=0, keepWithNext=1),
@@ -143,7 +143,7 @@ def _pre(text: str, style: str, width: float) -> Preformatted:
 
 def _col_widths(t: Table, width: float, font: str, size: float) -> list[float]:
     """Natural widths of the cells, the widest columns capped so the table fits `width`."""
-    pad = 8.0
+    pad = 12.0   # cell padding (3 + 3) and a margin for the line breaker
     n = len(t.header)
     nat = []
     for j in range(n):
@@ -210,7 +210,7 @@ def _block(b: Block, width: float) -> list[Flowable]:
         head, _, rest = b.text.partition("\n")
         return [_pre(head, "mono-head", width), _pre(rest, "mono", width)]
     if b.style == "code":  # verbatim text in balanced columns
-        n = 3 if max(len(line) for line in b.text.splitlines() or [""]) <= 100 else 2
+        n = 3   # long lines wrap within their column (Preformatted's maxLineLength)
         col = width / n - 8
         return [BalancedColumns([_pre(b.text, "code", col)], nCols=n, spaceBefore=2,
                                 innerPadding=8)]
