@@ -20,6 +20,7 @@ from fem.case.model import Case
 from fem.case.parse import load_case
 from fem.output_folder import staged_output
 from fem.progress import Progress, as_progress
+from fem.provenance import provenance
 from fem.results import Result, write_json
 
 if TYPE_CHECKING:  # the run types, for annotations only (no import at run time)
@@ -109,9 +110,11 @@ def check(path_or_case: str | Path | Case,
     case = path_or_case if isinstance(path_or_case, Case) else load_case(path_or_case)
     if case.kind == "beam":
         from fem.member.check import check_beam
+        from fem.member.deflection import beam_deflection
 
         beam = check_beam(case, progress=progress)
-        return CheckResult(case=case, result=beam.result, run=beam)
+        beam.result.deflection = beam_deflection(case, beam.finest)  # informative only
+        return _stamp(CheckResult(case=case, result=beam.result, run=beam))
     from fem.section.check import check_section_case
 
     prog = as_progress(progress)  # the section run calls a plain progress(message)
@@ -120,7 +123,15 @@ def check(path_or_case: str | Path | Case,
         section = check_section_case(case, progress=prog.step)
     finally:
         prog.close()
-    return CheckResult(case=case, result=section.result, run=section)
+    return _stamp(CheckResult(case=case, result=section.result, run=section))
+
+
+def _stamp(res: CheckResult) -> CheckResult:
+    """Provenance (versions, case file name and SHA-256, UTC time) and the title block."""
+    c = res.case
+    res.result.provenance = provenance(c.file, c.text or None)
+    res.result.project = c.project.given() if c.project is not None else None
+    return res
 
 
 def write_outputs(res: CheckResult, out: str | Path, report: bool = True) -> list[Path]:
@@ -161,6 +172,8 @@ def hand_check(case: Case, out: Path) -> str:
         from fem.section.hand_only import section_hand_result
 
         res, lines = section_hand_result(case)
+    res.provenance = provenance(case.file, case.text or None)
+    res.project = case.project.given() if case.project is not None else None
     d = res.to_dict()
     d["mesh"] = {"nodes": None, "elements": None, "dofs": None, "size": None, "order": None}
     d["convergence"] = {"sizes": [], "tau_max": [], "observed_order": None,

@@ -36,7 +36,8 @@ def _parser() -> argparse.ArgumentParser:
     d.add_argument("--quiet", action="store_true")
     h = sub.add_parser("hand", help="the hand calculation only: no mesh, no solve")
     h.add_argument("case", type=Path)
-    h.add_argument("--out", type=Path, default=None)
+    h.add_argument("--out", type=Path, default=None,
+                   help="output folder (default: out/<case name>-hand)")
     h.add_argument("--quiet", action="store_true")
     _suite_parsers(sub)
     return p
@@ -93,7 +94,7 @@ def _run(case_path: Path, out: Path | None, report: bool, quiet: bool) -> int:
 def _hand(case_path: Path, out: Path | None, quiet: bool) -> int:
     from fem.api import hand_check
 
-    case, out = _load(case_path, out)
+    case, out = _load(case_path, out, suffix="-hand")  # its own folder: never beside a run
     text = hand_check(case, out)
     if not quiet:
         print(text)
@@ -152,8 +153,9 @@ def _sweep(args: argparse.Namespace) -> int:
     return 0
 
 
-def _load(case_path: Path, out: Path | None):
-    """The case and its output folder (default out/<name>: the name cannot hold a path)."""
+def _load(case_path: Path, out: Path | None, suffix: str = ""):
+    """The case and its output folder (default out/<name><suffix>: the name cannot hold a
+    path)."""
     from fem.case.parse import load_case
 
     try:
@@ -163,7 +165,7 @@ def _load(case_path: Path, out: Path | None):
     except Exception:
         _log_internal(out if out is not None else Path("out"))
         raise
-    out = out if out is not None else Path("out") / case.name
+    out = out if out is not None else Path("out") / f"{case.name}{suffix}"
     if out.exists() and not out.is_dir():
         raise CaseError(str(out), "--out", "exists and is not a folder; give a folder for the "
                                            "outputs")

@@ -174,6 +174,10 @@ class Result:
     envelope: Envelope | None = None
     joints: list[dict[str, Any]] | None = None   # sections with joint lines (fem.section.joints)
     planes: list[dict[str, Any]] | None = None   # beams with check.planes (fem.member.planes)
+    provenance: dict[str, Any] | None = None   # fem.provenance: versions, case hash, time
+    project: dict[str, str] | None = None      # the [project] title block as given
+    deflection: dict[str, Any] | None = None   # informative: FE and hand displacements
+    pdf_skipped: str | None = None             # why report.pdf was not written, if it wasn't
 
     def to_dict(self) -> dict[str, Any]:
         d = to_jsonable(self)
@@ -189,6 +193,9 @@ class Result:
             d.pop("joints", None)
         if self.planes is None:
             d.pop("planes", None)
+        for key in ("provenance", "project", "deflection", "pdf_skipped"):
+            if d.get(key) is None:
+                d.pop(key, None)
         return d
 
 

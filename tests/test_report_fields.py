@@ -13,6 +13,7 @@ from conftest import CANTILEVER, ROOT
 from fem.api import check
 from fem.case import load_case, parse_case
 from fem.report.fields import (
+    PRINCIPAL_VTU_FIELDS,
     PROFILE_COLUMNS,
     SECTION_VTU_FIELDS,
     VTU_FIELDS,
@@ -37,7 +38,7 @@ def test_vtu_round_trip(res, tmp_path: Path):
     assert np.all(m.points[:, 2] == 0.0)
     tri = m.get_cells_type("triangle")
     np.testing.assert_array_equal(tri, f.t[:3].T)
-    assert set(m.point_data) == {"displacement", *VTU_FIELDS}
+    assert set(m.point_data) == {"displacement", *VTU_FIELDS, *PRINCIPAL_VTU_FIELDS}
     for name, key in VTU_FIELDS.items():
         np.testing.assert_allclose(m.point_data[name], f.nodal[key], rtol=0, atol=0)
     u = m.point_data["displacement"]
@@ -56,6 +57,17 @@ def test_vtu_fields_agree_with_each_other(res, tmp_path: Path):
                                rtol=1e-10, atol=1e-9)
     p1 = 0.5 * (sx + sy) + np.sqrt((0.5 * (sx - sy)) ** 2 + t**2)
     np.testing.assert_allclose(d["principal_max"], p1, rtol=1e-10, atol=1e-9)
+    p2 = 0.5 * (sx + sy) - np.sqrt((0.5 * (sx - sy)) ** 2 + t**2)
+    np.testing.assert_allclose(d["principal_min"], p2, rtol=1e-10, atol=1e-9)
+    # each direction is a unit eigenvector of the stress tensor [[sx, t], [t, sy]]
+    for name, lam in (("direction_max", p1), ("direction_min", p2)):
+        n = d[name][:, :2]
+        np.testing.assert_allclose(np.hypot(n[:, 0], n[:, 1]), 1.0, rtol=1e-12)
+        scale = np.abs(p1) + np.abs(p2) + 1e-12
+        np.testing.assert_allclose((sx * n[:, 0] + t * n[:, 1] - lam * n[:, 0]) / scale, 0.0,
+                                   atol=1e-9)
+        np.testing.assert_allclose((t * n[:, 0] + sy * n[:, 1] - lam * n[:, 1]) / scale, 0.0,
+                                   atol=1e-9)
     tip = np.argmax(m.points[:, 0])
     assert d["displacement"][tip, 1] < 0.0
 
@@ -63,7 +75,9 @@ def test_vtu_fields_agree_with_each_other(res, tmp_path: Path):
 def test_profiles_csv_has_one_block_per_cut(res):
     """Header, then the cuts in order, each block the cut's whole profile at its x."""
     rows = list(csv.reader(profiles_csv_text(res.result).splitlines()))
-    assert tuple(rows[0]) == PROFILE_COLUMNS
+    assert rows[0] == ["cut", "x [mm]", "y [mm]", "tau_fe [MPa]", "tau_hand [MPa]",
+                       "sigma_x_fe [MPa]", "sigma_x_hand [MPa]"]
+    assert [c.split(" [")[0] for c in rows[0]] == list(PROFILE_COLUMNS)
     body = rows[1:]
     cuts = res.result.cuts
     blocks = [int(r[0]) for r in body]

@@ -23,7 +23,6 @@ from fem.api import CheckResult, write_outputs
 from fem.case import load_case, parse_case
 from fem.report.blocks import sci
 from fem.report.note import design_note
-from fem.report.pdf import write_pdf
 from fem.results import CAUTION
 
 DEMO = ROOT / "fem" / "data" / "stub-bracket.toml"
@@ -31,13 +30,37 @@ PNG_MAGIC = b"\x89PNG\r\n\x1a\n"
 VOID = {"meta", "img", "br", "hr", "link", "input", "col", "source", "wbr"}
 
 
+PROJECT = """
+[project]
+project = "Dock 4 crane rail upgrade"
+job = "J-2291"
+member = "Bracket B3"
+prepared_by = "A. Engineer"
+date = "2026-03-14"
+revision = "B"
+notes = "Plate checked for the new rail bearing."
+"""
+
+
 @pytest.fixture(scope="module")
 def run(tmp_path_factory) -> tuple[CheckResult, Path, list[Path]]:
-    case = load_case(DEMO).with_mesh(levels=2, size=24.0)
+    """The demo with a title block (checked_by left out), written as a file in a folder of
+    its own, run from there: the outputs must not name that folder."""
+    where = tmp_path_factory.mktemp("case-folder")
+    path = where / "stub-bracket.toml"
+    demo = re.sub(r"\[project\].*?\n\n", "", DEMO.read_text(encoding="utf-8"), flags=re.S)
+    path.write_text(demo + PROJECT, encoding="utf-8")
+    case = load_case(path).with_mesh(levels=2, size=24.0)
     case = replace(case, check=replace(case.check, cuts=(35.0, 100.0)))  # beside, through hole
     res = fem.check(case)
     out = tmp_path_factory.mktemp("note")
     return res, out, write_outputs(res, out)
+
+
+def _note_pngs(files: list[Path]) -> list[Path]:
+    """The figures the note shows: every PNG but the single-cut profiles (profiles.png
+    stands for them)."""
+    return [f for f in files if f.suffix == ".png" and not f.stem.startswith("profile-")]
 
 
 def _pages(pdf: bytes) -> int:
@@ -82,7 +105,7 @@ def test_output_folder_holds_every_file(run):
     n = len(res.result.cuts)
     expected = {"results.json", "report.html", "report.pdf", "fields.vtu", "profiles.csv",
                 "shear-contour.png", "von-mises-contour.png", "convergence.png",
-                "ratio-along-member.png"}
+                "ratio-along-member.png", "profiles.png", "mesh.png"}
     expected |= {f"profile-{k:02d}.png" for k in range(1, n + 1)}
     assert {f.name for f in files} == expected
     assert {p.name for p in out.iterdir()} == expected
@@ -98,7 +121,7 @@ def test_html_parses_and_embeds_its_figures(run):
     doc = _parse(html)
     assert doc.errors == [] and doc.stack == []
     imgs = [a["src"] for t, a in doc.tags if t == "img"]
-    assert len(imgs) == len([f for f in files if f.suffix == ".png"])
+    assert len(imgs) == len(_note_pngs(files))
     for src in imgs:
         assert src.startswith("data:image/png;base64,")
         assert base64.b64decode(src.split(",", 1)[1])[:8] == PNG_MAGIC
@@ -159,17 +182,92 @@ def test_hand_calculation_substitutes_its_own_numbers(run):
         assert val(m[1]) / val(m[2]) == pytest.approx(val(m[3]), rel=2e-3)
 
 
-def test_pdf_has_text_pages_then_one_page_per_figure(run, tmp_path):
-    res, out, files = run
-    figures = [f for f in files if f.suffix == ".png"]
+def _pdf_pages(path: Path) -> list[str]:
+    from pypdf import PdfReader
+
+    return [re.sub(r"\s+", " ", pg.extract_text() or "") for pg in PdfReader(path).pages]
+
+
+def test_pdf_pages_carry_title_block_page_numbers_and_caution(run):
+    """Every page: the title block in its header (a field left out stays blank), "page N
+    of M" and the caution in its footer; the first page is the summary."""
+    res, out, _ = run
     pdf = (out / "report.pdf").read_bytes()
     assert pdf.startswith(b"%PDF") and pdf.rstrip().endswith(b"%%EOF")
-    n = _pages(pdf)
-    assert n >= len(figures) + 1
-    text_only = write_pdf(design_note(res, []), tmp_path / "text.pdf")
-    assert text_only == _pages((tmp_path / "text.pdf").read_bytes()) >= 2
-    assert n == text_only + len(figures)
-    assert CAUTION.encode() in pdf  # in the document information (Subject)
+    pages = _pdf_pages(out / "report.pdf")
+    n = len(pages)
+    assert 4 <= n <= 9
+    assert n == _pages(pdf)
+    for k, text in enumerate(pages, start=1):
+        assert f"page {k} of {n}" in text
+        for field in ("Dock 4 crane rail upgrade", "J-2291", "Bracket B3", "A. Engineer",
+                      "2026-03-14", "CHECKED BY", "PROJECT", "REVISION"):
+            assert field in text, (k, field)
+        assert "licensed engineer" in text and "verification aid" in text
+    first = pages[0]
+    assert "Summary" in first and res.result.verdict.upper() in first
+    assert "Peak stresses at each cut" in first
+    assert "Plate checked for the new rail bearing." in first
+    assert "checked_by" not in res.data["project"] and res.data["project"]["job"] == "J-2291"
+
+
+def test_pdf_figures_two_to_a_page(run):
+    """The figures section: never more than two figures on a page, and at least one page
+    holds two."""
+    _, out, files = run
+    pages = _pdf_pages(out / "report.pdf")
+    per_page = [len(re.findall(r"Figure \d+\.", t)) for t in pages]
+    assert sum(per_page) == len(_note_pngs(files))
+    assert max(per_page) == 2
+
+
+def test_provenance_and_no_machine_paths(run):
+    """results.json names the case file (not where it lives) with its SHA-256, and neither
+    results.json, report.html nor the PDF's text holds the case's folder or the output's."""
+    import hashlib
+    import json
+
+    res, out, _ = run
+    case_path = Path(res.case.file)
+    d = json.loads((out / "results.json").read_text(encoding="utf-8"))
+    prov = d["provenance"]
+    assert prov["case_file"] == "stub-bracket.toml"
+    assert prov["case_sha256"] == hashlib.sha256(case_path.read_bytes()).hexdigest()
+    for key in ("numpy", "scipy", "scikit-fem", "gmsh", "meshio"):
+        assert prov["packages"][key] not in ("", None)
+    html = (out / "report.html").read_text(encoding="utf-8")
+    pdf_text = " ".join(_pdf_pages(out / "report.pdf"))
+    for folder in {str(case_path.parent), str(out), str(Path.home())} - {"/"}:
+        for where, text in (("results.json", json.dumps(d)), ("report.html", html),
+                            ("report.pdf", pdf_text)):
+            assert folder not in text, (folder, where)
+    assert prov["case_sha256"] in html and prov["case_sha256"][:16] in pdf_text.replace(" ", "")
+    import html as html_lib
+
+    assert 'job = "J-2291"' in html_lib.unescape(html)  # the case text in the appendix
+
+
+def test_pdf_skipped_with_a_reason_when_reportlab_is_missing(run, tmp_path, monkeypatch):
+    """ReportLab unimportable: report.html still written, no report.pdf, and results.json
+    and the console summary say why."""
+    import sys
+
+    res = run[0]
+    for name in [m for m in sys.modules if m == "reportlab" or m.startswith("reportlab.")]:
+        monkeypatch.delitem(sys.modules, name)
+    monkeypatch.setitem(sys.modules, "reportlab", None)
+    monkeypatch.delitem(sys.modules, "fem.report.pdf", raising=False)
+    files = {f.name for f in write_outputs(res, tmp_path / "nopdf")}
+    assert "report.html" in files and "report.pdf" not in files
+    assert not (tmp_path / "nopdf" / "report.pdf").exists()
+    import json
+
+    d = json.loads((tmp_path / "nopdf" / "results.json").read_text())
+    assert "report.pdf not written" in d["pdf_skipped"] and "reportlab" in d["pdf_skipped"]
+    assert "report.pdf not written" in res.summary()
+    monkeypatch.undo()
+    files = {f.name for f in write_outputs(res, tmp_path / "withpdf")}
+    assert "report.pdf" in files and res.result.pdf_skipped is None
 
 
 def test_no_report_writes_results_json_only(run, tmp_path):
@@ -229,8 +327,9 @@ def test_section_check_gets_its_own_note(tmp_path):
     assert f"V/A = 10000 / {sci(sec['A'])} = {sci(sec['tau_avg_hand'])} MPa" in text
     imgs = [a["src"] for t, a in doc.tags if t == "img"]
     assert len(imgs) == len([n for n in names if n.endswith(".png")])
+    assert "Prepared by" in text and "Checked by" in text  # the title block, left blank
     rows = (tmp_path / "profiles.csv").read_text().splitlines()
-    assert rows[0] == "line,offset,s,x,y,tau_fe,tau_hand"
+    assert rows[0] == ("line,offset [mm],s [mm],x [mm],y [mm],tau_fe [MPa],tau_hand [MPa]")
     lines = [r.split(",")[0] for r in rows[1:]]
     assert lines[0] == "neutral-axis"
     assert {n for n in lines if n != "neutral-axis"} == {

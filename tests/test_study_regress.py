@@ -18,10 +18,12 @@ from fem.cli import main
 from fem.study.regress import (
     REL_CAP,
     REL_FLOOR,
+    ROUND_OFF,
     Row,
     baseline_path,
     compare,
     figures_of,
+    merge_baseline,
     run_suite,
     tolerances,
 )
@@ -81,6 +83,11 @@ def test_drift_exits_1_naming_case_and_figure(stub_copy, capsys):
     assert "cut x=150 tau_max_fe" in out and "updated" in out
     assert main(["regress", str(stub_copy), "--workers", "1", "--quiet"]) == 0
     assert "hold" in capsys.readouterr().out
+    before = bp.read_bytes()
+    assert main(["regress", str(stub_copy), "--update", "--workers", "1"]) == 0
+    last = capsys.readouterr().out.splitlines()[-1]
+    assert bp.read_bytes() == before, "nothing moved: the baseline must not be rewritten"
+    assert "wrote 0 baseline(s)" in last and "1 baseline(s) unchanged" in last
 
 
 def test_missing_baseline_and_unknown_case(stub_copy, capsys):
@@ -132,3 +139,24 @@ def test_compare_statuses():
     assert st["settings size"] == "changed"
     assert compare("c", None, {}, settings)[0].status == "missing"
     assert not Row("c", "f", 1, 2, 0.5, "drift").holds
+
+
+def test_update_rewrites_only_figures_moved_beyond_round_off():
+    """Noise of 1e-12 moves nothing (no rewrite); a real change replaces that figure only,
+    the others keep their stored value and tolerance."""
+    settings = {"levels": 1, "size": 10.0, "order": 2}
+    stored = tolerances(figures_of(_data(10.0, 1.2)), figures_of(_data(10.1, 1.2)))
+    base = {"made_with": settings, "figures": stored}
+    noisy = figures_of(_data(10.0 * (1 + 1e-12), 1.2 * (1 - 1e-12)))
+    tol_now = tolerances(noisy, figures_of(_data(10.3, 1.3)))
+    assert merge_baseline(base, noisy, tol_now, settings) == (None, [])
+    moved = figures_of(_data(10.0, 1.2 * (1 + 100 * ROUND_OFF)))
+    figs, names = merge_baseline(base, moved, tolerances(moved, moved), settings)
+    assert names == ["cut x=50 ratio"]
+    assert figs["cut x=50 tau_max_fe"] == stored["cut x=50 tau_max_fe"]
+    assert figs["cut x=50 ratio"]["value"] == moved["cut x=50 ratio"]["value"]
+    assert figs["cut x=50 ratio"]["rel_tol"] == REL_FLOOR
+    verdict = figures_of(_data(10.0, 1.2, "unsafe"))
+    assert merge_baseline(base, verdict, tolerances(verdict, verdict), settings)[1] == ["verdict"]
+    other = {**settings, "size": 8.0}
+    assert set(merge_baseline(base, noisy, tol_now, other)[1]) == set(noisy)

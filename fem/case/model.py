@@ -10,6 +10,7 @@ from dataclasses import dataclass, field, replace
 from typing import Any
 
 from classical.units import stress_unit
+from fem.case.project import Project
 
 __all__ = [
     "Case", "Units", "Material", "Hole", "Cutout", "Zone", "Placement", "Support", "Load",
@@ -200,6 +201,8 @@ class Case:
     shear: tuple[float, float] = (0.0, 0.0)
     file: str = "<case>"
     schema: int = SCHEMA
+    project: Project | None = None   # the optional [project] title block (fem.case.project)
+    text: str = field(default="", repr=False, compare=False)  # the case file as read
 
     @property
     def beam(self) -> BeamGeometry:

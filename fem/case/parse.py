@@ -48,6 +48,7 @@ from fem.case.model import (
 )
 from fem.case.outline import validate_geometry
 from fem.case.plates import read_joints, read_plates, validate_planes
+from fem.case.project import read_project
 from fem.case.reader import Table, as_point, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
@@ -60,7 +61,7 @@ def load_case(path: str | Path) -> Case:
     path = Path(path)
     name = str(path)
     try:
-        text = path.read_text(encoding="utf-8")
+        text = path.read_bytes().decode("utf-8")  # as stored (no newline translation)
     except FileNotFoundError:
         raise CaseError(name, "", "file not found") from None
     except UnicodeDecodeError:
@@ -128,10 +129,11 @@ def _parse(text: str, file: str) -> Case:
         if shear == (0.0, 0.0):
             raise lt.error("shear", "is zero; give a non-zero [Vx, Vy]")
         supports, loads = (), ()
+    project = read_project(top)  # the optional title block
     top.close()
     case = Case(name=case_name, title=title, kind=kind, units=units, material=material,
                 geometry=geometry, mesh=mesh, check=check, supports=supports, loads=loads,
-                shear=shear, file=file, schema=schema)
+                shear=shear, file=file, schema=schema, project=project, text=text)
     if kind == "beam":
         validate_geometry(case)
         validate_planes(case)

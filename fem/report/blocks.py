@@ -1,8 +1,10 @@
-"""The pieces of a design note: paragraphs, tables, sections, and how numbers are printed.
+"""The pieces of a document: paragraphs, tables, figures, sections, the note itself.
 
-`fem.report.note` fills a `Note` from a finished check; `fem.report.html` and
-`fem.report.pdf` render it. Kept apart so that the renderers and the section part of the
-note depend on these pieces only, never on each other.
+A `Note` is any document shearcheck writes (the design note of a check, a verification
+report, ...): a title, a title block, sections of `Block`, `Table` and `Figure` items.
+`fem.report.html.render_html` and `fem.report.pdf.write_pdf` render the same `Note`, so
+both documents always carry the same content; neither knows what a check is.
+`fem.report.note` fills a `Note` from a finished check.
 """
 
 from __future__ import annotations
@@ -13,7 +15,7 @@ from pathlib import Path
 
 from fem.report.member_figures import number
 
-__all__ = ["Table", "Block", "Section", "Note", "sci", "numeric_columns"]
+__all__ = ["Table", "Block", "Figure", "Section", "Note", "sci", "numeric_columns"]
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
@@ -57,7 +59,8 @@ def numeric_columns(t: Table) -> list[bool]:
 
 @dataclass
 class Block:
-    """A paragraph; `style` is '', 'bullet', 'formula', 'finding', 'small', 'caution' or
+    """A paragraph; `style` is '', 'bullet', 'formula' (first line names what follows),
+    'code' (verbatim, monospace), 'finding' ('kind: message'), 'small', 'caution' or
     'verdict-<verdict>'."""
 
     text: str
@@ -65,15 +68,44 @@ class Block:
 
 
 @dataclass
+class Figure:
+    """A PNG with its caption; numbered in order of appearance by the renderers."""
+
+    path: Path
+    caption: str
+
+
+@dataclass
 class Section:
+    """A titled part; `new_page` starts it on a new page in print (PDF), `pair` sets its
+    figures two to a page."""
+
     title: str
-    items: list[Block | Table] = field(default_factory=list)
+    items: list[Block | Table | Figure] = field(default_factory=list)
+    new_page: bool = False
+    pair: bool = False
 
 
 @dataclass
 class Note:
+    """A document: its title, a title block and the sections in order.
+
+    `title_block` is (label, value) pairs shown on the first HTML page and in every PDF
+    page header (a blank value stays blank); `remarks` is shown under it on the first
+    page only; `verdict` ('holds', 'unsafe', 'inconclusive' or '' for none) colours the
+    badge; `caution` goes in the header of the HTML and the footer of every PDF page.
+    """
+
     title: str
     subtitle: str
-    verdict: str
     sections: list[Section]
-    figures: list[tuple[Path, str]]
+    verdict: str = ""
+    title_block: list[tuple[str, str]] = field(default_factory=list)
+    remarks: str = ""
+    kicker: str = "Design note · shear verification"
+    caution: str = ""
+
+    @property
+    def figures(self) -> list[Figure]:
+        """Every figure of the note, in order."""
+        return [it for s in self.sections for it in s.items if isinstance(it, Figure)]

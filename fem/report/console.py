@@ -29,6 +29,12 @@ def summary_table(d: dict) -> str:
     if c.get("gci") is not None:
         lines.append(f"convergence: {len(c['sizes'])} levels, GCI {c['gci']:.2%}, "
                      f"observed order {_fmt(c['observed_order'], 5).strip()}")
+    df = d.get("deflection") or {}
+    if df.get("max_fe") is not None:
+        hand = (f", hand {_fmt(df['hand']).strip()} beside FE {_fmt(df['fe_at_hand']).strip()}"
+                if df.get("hand") is not None else "")
+        lines.append(f"deflection (informative): max |u| {_fmt(df['max_fe']).strip()} "
+                     f"{u['length']}{hand}")
     lines.append(f"verdict: {d['verdict'].upper()}")
     for f in d["findings"]:
         if f["kind"] != "excluded":
@@ -37,4 +43,6 @@ def summary_table(d: dict) -> str:
     if n_ex:
         lines.append(f"  ({n_ex} boundary-idealisation zones left out of the peaks; "
                      "see results.json)")
+    if d.get("pdf_skipped"):
+        lines.append(d["pdf_skipped"])
     return "\n".join(lines)

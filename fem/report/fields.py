@@ -3,17 +3,20 @@
 Beam check: `fields.vtu` (meshio) holds the finest mesh as linear triangles on its corner
 vertices, with the smooth nodal fields there (`fem.member.recovery.StressField.nodal`, the
 element-vertex stresses averaged at each vertex) as point data: ``displacement``
-(3 components, z = 0), ``sigma_xx``, ``sigma_yy``, ``tau_xy``, ``von_mises`` and
-``principal_max``, in the case's length and stress units. `profiles.csv` has one row per
-sampled point of every cut, one block per cut, columns
-``cut,x,y,tau_fe,tau_hand,sigma_x_fe,sigma_x_hand`` (``cut`` numbered from 1 as in the
-report).
+(3 components, z = 0), ``sigma_xx``, ``sigma_yy``, ``tau_xy``, ``von_mises``,
+``principal_max`` (σ1), ``principal_min`` (σ2) and the principal directions
+``direction_max`` and ``direction_min`` (unit vectors, z = 0; a direction has no sign), in
+the case's length and stress units. `profiles.csv` has one row per sampled point of every
+cut, one block per cut, columns ``cut,x [L],y [L],tau_fe [S],tau_hand [S],sigma_x_fe [S],
+sigma_x_hand [S]`` with the case's units written in the header (``cut`` numbered from 1 as
+in the report).
 
 Section check: `fields.vtu` holds the finest section mesh with the flexure shear stress
 under the case's shear, averaged at the vertices (`fem.section.solve.SectionSolution`):
 ``tau`` (vector [tau_zx, tau_zy, 0]), ``tau_zx``, ``tau_zy`` and ``tau_magnitude``.
 `profiles.csv` holds the neutral-axis profile and every cut of ``result.section``, columns
-``line,offset,s,x,y,tau_fe,tau_hand`` (``line`` is ``neutral-axis`` or ``cut-k``).
+``line,offset [L],s [L],x [L],y [L],tau_fe [S],tau_hand [S]`` (``line`` is
+``neutral-axis`` or ``cut-k``).
 
 Any VTU viewer opens the field files.
 """
@@ -30,17 +33,27 @@ from typing import Any
 import meshio
 import numpy as np
 
+from classical.bending import principal_stresses
 from fem.results import Result, atomic_write
 
 __all__ = ["VTU_FIELDS", "SECTION_VTU_FIELDS", "PROFILE_COLUMNS", "SECTION_PROFILE_COLUMNS",
            "write_fields", "write_vtu", "write_section_vtu", "write_profiles_csv",
-           "profiles_csv_text"]
+           "profiles_csv_text", "header_with_units", "PRINCIPAL_VTU_FIELDS", "UNITS_OF"]
 
 VTU_FIELDS = {"sigma_xx": "sxx", "sigma_yy": "syy", "tau_xy": "txy",
               "von_mises": "von_mises", "principal_max": "principal_max"}
 PROFILE_COLUMNS = ("cut", "x", "y", "tau_fe", "tau_hand", "sigma_x_fe", "sigma_x_hand")
 SECTION_PROFILE_COLUMNS = ("line", "offset", "s", "x", "y", "tau_fe", "tau_hand")
 SECTION_VTU_FIELDS = ("tau", "tau_zx", "tau_zy", "tau_magnitude")
+PRINCIPAL_VTU_FIELDS = ("principal_min", "direction_max", "direction_min")
+UNITS_OF = {"x": "length", "y": "length", "s": "length", "offset": "length",
+            "tau_fe": "stress", "tau_hand": "stress", "sigma_x_fe": "stress",
+            "sigma_x_hand": "stress"}
+
+
+def header_with_units(columns: tuple[str, ...], units: dict[str, str]) -> list[str]:
+    """Column names with their unit in brackets: ``x [mm]``, ``tau_fe [MPa]``."""
+    return [f"{c} [{units[UNITS_OF[c]]}]" if c in UNITS_OF else c for c in columns]
 
 
 def _write_mesh(p: np.ndarray, t: np.ndarray, data: dict[str, np.ndarray], path: Path) -> Path:
@@ -66,6 +79,12 @@ def write_vtu(field: Any, path: Path) -> Path:
     data = {"displacement": _xyz(np.asarray(field.displacement).T)}
     for name, key in VTU_FIELDS.items():
         data[name] = np.asarray(field.nodal[key], float)
+    n = field.nodal
+    ps = principal_stresses(n["sxx"], n["syy"], n["txy"])
+    theta = np.asarray(ps.angle, float)  # of sigma_1 from x; sigma_2 at 90 degrees to it
+    data["principal_min"] = np.asarray(ps.s2, float)
+    data["direction_max"] = _xyz(np.column_stack([np.cos(theta), np.sin(theta)]))
+    data["direction_min"] = _xyz(np.column_stack([-np.sin(theta), np.cos(theta)]))
     return _write_mesh(np.asarray(field.p, float), field.t, data, path)
 
 
@@ -85,7 +104,7 @@ def profiles_csv_text(result: Result) -> str:
     w = csv.writer(buf, lineterminator="\n")
     if result.kind == "section":
         sec = result.section or {}
-        w.writerow(SECTION_PROFILE_COLUMNS)
+        w.writerow(header_with_units(SECTION_PROFILE_COLUMNS, result.units))
         lines = [("neutral-axis", sec.get("neutral_axis") or {})]
         lines += [(f"cut-{k}", c) for k, c in enumerate(sec.get("cuts") or [], start=1)]
         for name, ln in lines:
@@ -98,7 +117,7 @@ def profiles_csv_text(result: Result) -> str:
             for row in zip(*cols, strict=True):
                 w.writerow([name, *(f"{float(v):.9g}" for v in row)])
         return buf.getvalue()
-    w.writerow(PROFILE_COLUMNS)
+    w.writerow(header_with_units(PROFILE_COLUMNS, result.units))
     for i, c in enumerate(result.cuts or [], start=1):
         pr = c.profile
         n = len(pr.y)

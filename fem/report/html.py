@@ -1,4 +1,4 @@
-"""The design note (`fem.report.blocks.Note`) as one self-contained HTML page.
+"""A document (`fem.report.blocks.Note`) as one self-contained HTML page.
 
 Styles are inline in one <style> element, figures are PNG data URIs, the font is the
 reader's system sans-serif: the file opens anywhere, offline, and can be mailed or
@@ -11,10 +11,9 @@ import base64
 import html
 from pathlib import Path
 
-from fem.report.blocks import Block, Note, Table, numeric_columns
-from fem.results import CAUTION
+from fem.report.blocks import Block, Figure, Note, Table, numeric_columns
 
-__all__ = ["render_html", "CSS"]
+__all__ = ["render_html", "title_block_html", "CSS"]
 
 CSS = """
 :root{--ink:#1d2327;--mute:#5b6770;--rule:#d9dee2;--soft:#f4f6f7;--accent:#2a5d84}
@@ -55,6 +54,15 @@ tr.mark td{background:#fbeaea}
 figure{margin:18px 0 30px}
 figure img{display:block;max-width:100%;height:auto;margin:0 auto;border:1px solid var(--rule)}
 figcaption{font-size:13px;color:var(--mute);margin-top:6px}
+table.tb{width:100%;min-width:0;margin:0 0 14px;font-size:13px}
+table.tb td{border:1px solid var(--rule);padding:4px 8px;width:25%}
+table.tb .k{display:block;font-size:10px;text-transform:uppercase;letter-spacing:.08em;
+color:var(--mute)}
+table.tb .v{display:block;min-height:1.3em}
+p.remarks{white-space:pre-wrap;font-size:14px;margin:4px 0 14px}
+pre.code{font:12px/1.5 ui-monospace,"DejaVu Sans Mono",Menlo,Consolas,monospace;
+background:var(--soft);border:1px solid var(--rule);border-radius:6px;padding:10px 14px;
+white-space:pre-wrap;overflow-wrap:anywhere}
 footer{margin-top:40px;border-top:1px solid var(--rule);padding-top:12px;font-size:13px;
 color:var(--mute)}
 @media print{main{padding:0}h2{break-after:avoid}figure,tr{break-inside:avoid}}
@@ -88,6 +96,8 @@ def _block(b: Block) -> str:
     if b.style == "formula":  # the first line names what follows
         head, _, rest = b.text.partition("\n")
         return f'<pre class="formula"><b>{e(head)}</b>\n{e(rest)}</pre>'
+    if b.style == "code":
+        return f'<pre class="code">{e(b.text)}</pre>'
     if b.style == "finding":
         kind, _, msg = b.text.partition(": ")
         return f'<p class="finding"><b>{e(kind)}</b> — {e(msg)}</p>'
@@ -97,7 +107,13 @@ def _block(b: Block) -> str:
     return f"<p{cls}>{e(b.text)}</p>"
 
 
-def _items(items: list[Block | Table]) -> list[str]:
+def _figure(f: Figure, number: int) -> str:
+    e = html.escape
+    return (f'<figure><img src="{_data_uri(f.path)}" alt="{e(f.caption)}">'
+            f"<figcaption>Figure {number}. {e(f.caption)}</figcaption></figure>")
+
+
+def _items(items: list[Block | Table | Figure], count: list[int]) -> list[str]:
     out: list[str] = []
     bullets: list[str] = []
     for it in [*items, None]:
@@ -107,7 +123,12 @@ def _items(items: list[Block | Table]) -> list[str]:
         if bullets:
             out.append("<ul>" + "".join(bullets) + "</ul>")
             bullets = []
-        if it is not None:
+        if it is None:
+            continue
+        if isinstance(it, Figure):
+            count[0] += 1
+            out.append(_figure(it, count[0]))
+        else:
             out.append(_table(it) if isinstance(it, Table) else _block(it))
     return out
 
@@ -116,30 +137,42 @@ def _data_uri(p: Path) -> str:
     return "data:image/png;base64," + base64.b64encode(Path(p).read_bytes()).decode("ascii")
 
 
-def render_html(note: Note) -> str:
-    """The page's text. The figures come before the last section (assumptions, caution)."""
+def title_block_html(pairs: list[tuple[str, str]]) -> str:
+    """The title block as a grid of four columns: label above value, blanks kept blank."""
     e = html.escape
-    body = ['<header><p class="kicker">Design note · shear verification</p>'
-            f'<h1>{e(note.title)}</h1><p class="sub">{e(note.subtitle)}</p>'
-            f'<span class="badge verdict-{e(note.verdict)}">{e(note.verdict.upper())}</span>'
-            "</header>", f'<aside class="caution"><b>Caution.</b> {e(CAUTION)}</aside>']
-    titles = [s.title for s in note.sections]
-    if note.figures:
-        titles.insert(len(titles) - 1, "Figures")
-    body.append("<nav>" + "".join(f'<a href="#{_anchor(t)}">{e(t)}</a>' for t in titles)
-                + "</nav>")
-    for k, s in enumerate(note.sections):
-        if k == len(note.sections) - 1 and note.figures:
-            body.append('<section id="figures"><h2>Figures</h2>')
-            for j, (p, cap) in enumerate(note.figures, start=1):
-                body.append(f'<figure><img src="{_data_uri(p)}" alt="{e(cap)}">'
-                            f"<figcaption>Figure {j}. {e(cap)}</figcaption></figure>")
-            body.append("</section>")
+    cells = [f'<td><span class="k">{e(k)}</span><span class="v">{e(v)}</span></td>'
+             for k, v in pairs]
+    cells += ["<td></td>"] * (-len(cells) % 4)
+    rows = ["<tr>" + "".join(cells[i:i + 4]) + "</tr>" for i in range(0, len(cells), 4)]
+    return '<table class="tb"><tbody>' + "".join(rows) + "</tbody></table>"
+
+
+def render_html(note: Note) -> str:
+    """The page's text: header with the title block, contents, then every section."""
+    e = html.escape
+    body = ['<header><p class="kicker">' + e(note.kicker) + "</p>"
+            f'<h1>{e(note.title)}</h1><p class="sub">{e(note.subtitle)}</p>']
+    if note.title_block:
+        body.append(title_block_html(note.title_block))
+    if note.remarks:
+        body.append(f'<p class="remarks">{e(note.remarks)}</p>')
+    if note.verdict:
+        body.append(f'<span class="badge verdict-{e(note.verdict)}">'
+                    f"{e(note.verdict.upper())}</span>")
+    body.append("</header>")
+    if note.caution:
+        body.append(f'<aside class="caution"><b>Caution.</b> {e(note.caution)}</aside>')
+    body.append("<nav>" + "".join(f'<a href="#{_anchor(s.title)}">{e(s.title)}</a>'
+                                  for s in note.sections) + "</nav>")
+    count = [0]
+    for s in note.sections:
         body.append(f'<section id="{_anchor(s.title)}"><h2>{e(s.title)}</h2>')
-        body += _items(s.items)
+        body += _items(s.items, count)
         body.append("</section>")
-    body.append(f"<footer>{e(note.subtitle)}. {e(CAUTION)}</footer>")
+    body.append(f"<footer>{e(note.subtitle)}." + (f" {e(note.caution)}" if note.caution
+                                                  else "") + "</footer>")
     return ("<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n"
             "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n"
-            f"<title>{e(note.title)} — design note</title>\n<style>{CSS}</style>\n</head>\n"
+            f"<title>{e(note.title)} — {e(note.kicker.split(' · ')[0].lower())}</title>\n"
+            f"<style>{CSS}</style>\n</head>\n"
             "<body>\n<main>\n" + "\n".join(body) + "\n</main>\n</body>\n</html>\n")

@@ -37,7 +37,8 @@ from fem.member.level import Level, excluded_zones  # noqa: E402
 from fem.results import CutResult, Envelope  # noqa: E402
 
 __all__ = ["contour_figure", "profile_figure", "ratio_along_member_figure",
-           "write_beam_figures", "number", "DIVERGING", "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
+           "profiles_figure", "mesh_figure", "write_beam_figures", "number", "force_text",
+           "DIVERGING", "SEQUENTIAL", "FE_COLOUR", "HAND_COLOUR"]
 
 DIVERGING = "coolwarm"
 SEQUENTIAL = "cividis"
@@ -61,6 +62,19 @@ def number(v: float, digits: int = 4) -> str:
     if -3 <= mag < 7:
         return f"{v:.{max(0, digits - 1 - mag)}f}"
     return f"{v:.{digits - 1}e}"
+
+
+LARGER_UNIT = {"N": ("kN", 1e3), "lbf": ("kip", 1e3)}
+
+
+def force_text(v: float, unit: str) -> str:
+    """A force for a label: in kN (kip) from 10 kN (10 kip) on, else in the case's unit."""
+    if unit in LARGER_UNIT and abs(v) >= 1e4:
+        unit, v = LARGER_UNIT[unit][0], v / LARGER_UNIT[unit][1]
+    t = number(v)
+    if "." in t and "e" not in t:
+        t = t.rstrip("0").rstrip(".")
+    return f"{t} {unit}"
 
 
 def _outline(ax, dom) -> None:
@@ -101,8 +115,10 @@ def _patches(ax, case: Case, level: Level, span: float) -> None:
                     solid_capstyle="butt", zorder=5, clip_on=False)
         ax.annotate("", xy=head, xytext=tail, zorder=7, annotation_clip=False,
                     arrowprops={"arrowstyle": "-|>", "color": LOAD_COLOUR, "lw": 2.0})
-        ax.text(tail[0], tail[1], f" {number(float(np.hypot(*F)))} {case.units.force}",
-                color=LOAD_COLOUR, fontsize=8, ha="left",
+        x0, _, x1, _ = domain_polygon(case.beam).bounds
+        inward = tail[0] > 0.5 * (x0 + x1)  # the label on the member's side stays inside
+        ax.text(tail[0], tail[1], f" {force_text(float(np.hypot(*F)), case.units.force)} ",
+                color=LOAD_COLOUR, fontsize=8, ha="right" if inward else "left",
                 va="bottom" if head[1] <= tail[1] else "top", zorder=7)
 
 
@@ -241,7 +257,7 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
     y = np.asarray(cut.profile.y)
     dom = domain_polygon(case.beam)
     strips = cut_strips(case.beam, cut.x, case.material.thickness, dom)
-    fig, (a1, a2) = plt.subplots(1, 2, figsize=(8.0, 4.4), sharey=True)
+    fig, (a1, a2) = plt.subplots(1, 2, figsize=(8.0, 4.9), sharey=True)
     panels = ((a1, cut.profile.tau_fe, cut.profile.tau_hand, "VQ/(Ib)"),
               (a2, cut.profile.sigma_x_fe, cut.profile.sigma_x_hand, "N/A + M(y − ȳ)/I"))
     for ax, fe, hand, hand_label in panels:
@@ -278,12 +294,99 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
              f"ratio {cut.ratio:.3f}")
     fig.suptitle(f"Cut at x = {cut.x:g} {L}: {ratio}", x=0.01, ha="left", fontsize=11,
                  fontweight="bold")
-    a1.legend(fontsize=7.5, frameon=False, loc="best")
-    a2.legend(fontsize=7.5, frameon=False, loc="best")
-    fig.tight_layout()
+    _legend_below(fig, [a1, a2])
     fig.savefig(path, dpi=150)
     plt.close(fig)
     return path
+
+
+def _legend_below(fig, axes, ncol: int = 3) -> None:
+    """One legend of every labelled line of `axes`, in a band below them (off the data)."""
+    handles, labels = [], []
+    for ax in axes:
+        for h, lab in zip(*ax.get_legend_handles_labels(), strict=True):
+            if lab not in labels:
+                handles.append(h)
+                labels.append(lab)
+    rows = -(-len(labels) // ncol)
+    band = (0.14 + 0.2 * rows) / fig.get_figheight()
+    fig.legend(handles, labels, loc="lower center", ncol=ncol, frameon=False, fontsize=7.5,
+               bbox_to_anchor=(0.5, 0.0))
+    fig.tight_layout(rect=(0, band, 1, 1))
+
+
+def profiles_figure(case: Case, cuts: list[CutResult], path: Path) -> Path:
+    """τxy(y), FE against hand, at every cut side by side (the note's overview of the cut
+    profiles; each cut's own figure has σx too)."""
+    S, L = case.units.stress, case.units.length
+    n = len(cuts)
+    cols = min(n, 3)
+    rows = -(-n // cols)
+    fig, axes = plt.subplots(rows, cols, figsize=(8.0, 0.7 + 3.0 * rows), sharey=True,
+                             squeeze=False)
+    dom = domain_polygon(case.beam)
+    for k, ax in enumerate(axes.ravel()):
+        if k >= n:
+            ax.set_axis_off()
+            continue
+        c = cuts[k]
+        y = np.asarray(c.profile.y)
+        strips = cut_strips(case.beam, c.x, case.material.thickness, dom)
+        pieces_fe, merged = _per_strip(y, c.profile.tau_fe, strips)
+        pieces_hd, _ = _per_strip(y, c.profile.tau_hand, strips)
+        for j, ((yy, vf), (_, vh)) in enumerate(zip(pieces_fe, pieces_hd, strict=True)):
+            ax.plot(vf, yy, color=FE_COLOUR, lw=1.6, label="FE τxy" if j == 0 else None)
+            ax.plot(vh, yy, color=HAND_COLOUR, lw=1.3, ls="--",
+                    label="hand: VQ/(Ib)" if j == 0 else None)
+        for (_, b), (a, _) in zip(merged[:-1], merged[1:], strict=True):
+            ax.axhspan(b, a, color="#e6e6e6", zorder=0, label="no material")
+        ax.axvline(0.0, color="#bbbbbb", lw=0.6)
+        ax.grid(alpha=0.25)
+        for side in ("top", "right"):
+            ax.spines[side].set_visible(False)
+        ratio = "–" if c.ratio is None else f"{c.ratio:.3f}"
+        ax.set_title(f"cut {k + 1}, x = {c.x:g} {L}: ratio {ratio}", fontsize=8.5, loc="left")
+        ax.set_xlabel(f"τxy [{S}]", fontsize=8)
+        ax.tick_params(labelsize=7)
+        if k % cols == 0:
+            ax.set_ylabel(f"y [{L}]", fontsize=8)
+    fig.suptitle("Shear stress over the depth at each cut, FE against hand", x=0.01,
+                 ha="left", fontsize=11, fontweight="bold")
+    _legend_below(fig, list(axes.ravel()))
+    fig.savefig(path, dpi=150)
+    plt.close(fig)
+    return Path(path)
+
+
+def mesh_figure(case: Case, level: Level, path: Path) -> Path:
+    """The finest mesh (element edges between corner vertices), its refinement visible."""
+    f = level.field
+    L = case.units.length
+    dom = domain_polygon(case.beam)
+    x0, y0, x1, y1 = dom.bounds
+    span = max(x1 - x0, y1 - y0)
+    fig_h = float(np.clip(6.6 * (y1 - y0) / (x1 - x0) + 1.3, 3.2, 9.5))
+    fig, ax = plt.subplots(figsize=(8.0, fig_h))
+    tri = Triangulation(f.p[0], f.p[1], f.t.T)
+    ne = f.t.shape[1]
+    ax.triplot(tri, color="#3d4a57", lw=max(0.08, min(0.5, 60.0 / math.sqrt(ne))))
+    _outline(ax, dom)
+    _patches(ax, case, level, span)
+    ax.set_aspect("equal")
+    ax.set_xlim(x0 - 0.04 * span, x1 + 0.04 * span)
+    ax.set_ylim(y0 - 0.04 * span, y1 + 0.06 * span)
+    ax.set_xlabel(f"x [{L}]")
+    ax.set_ylabel(f"y [{L}]")
+    m = level.mm
+    order = "quadratic" if m.order == 2 else "linear"
+    ax.set_title(f"Finest mesh: {ne} {order} triangles, element size {level.size:g} {L} "
+                 "away from refinements", loc="left", fontsize=10.5, fontweight="bold")
+    for side in ("top", "right"):
+        ax.spines[side].set_visible(False)
+    fig.tight_layout()
+    fig.savefig(path, dpi=150)
+    plt.close(fig)
+    return Path(path)
 
 
 def _features(case: Case) -> list[tuple[str, float, float, str]]:
@@ -326,7 +429,7 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
     x0, _, x1, _ = dom.bounds
     pad = 0.004 * (x1 - x0)
     limit = 1.0 + envelope.tolerance
-    fig, (a_tau, a_r, a_m) = plt.subplots(3, 1, figsize=(8.0, 6.2), sharex=True,
+    fig, (a_tau, a_r, a_m) = plt.subplots(3, 1, figsize=(8.0, 6.6), sharex=True,
                                           gridspec_kw={"height_ratios": [2.0, 2.6, 0.7]})
     for ax in (a_tau, a_r):
         _bands(ax, envelope.excluded, EXCLUDED_COLOUR, pad, alpha=0.7, zorder=0)
@@ -339,7 +442,8 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
                label=f"hand: {case.check.method}")
     a_tau.set_ylabel(f"shear stress [{S}]")
     a_tau.set_ylim(bottom=0.0)
-    a_tau.legend(fontsize=7.5, frameon=False, loc="best")
+    a_tau.legend(fontsize=7.5, frameon=False, loc="lower left", bbox_to_anchor=(0.0, 1.0),
+                 ncol=2, borderaxespad=0.2)
     a_r.plot(x, ratio, color=INK, lw=1.5, label="FE / hand")
     a_r.axhline(1.0, color="#999999", lw=0.8)
     a_r.axhline(limit, color=FE_COLOUR, lw=1.0, ls=(0, (5, 3)),
@@ -363,7 +467,8 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
                matplotlib.patches.Patch(color=UNSAFE_COLOUR, alpha=0.6, label="unsafe"),
                matplotlib.patches.Patch(color=EXCLUDED_COLOUR, alpha=0.7,
                                         label="excluded zone (not judged)")]
-    a_r.legend(handles=handles, fontsize=7.5, frameon=False, loc="best", ncol=2)
+    a_r.legend(handles=handles, fontsize=7.5, frameon=False, loc="lower left",
+               bbox_to_anchor=(0.0, 1.0), ncol=4, borderaxespad=0.2)
     # the member along x: a bar with the supports, loads and holes marked by name
     a_m.axhspan(0.35, 0.65, xmin=0.0, xmax=1.0, color="#f0f0f0", zorder=0)
     a_m.plot([x0, x1], [0.35, 0.35], color=INK, lw=0.8)
@@ -394,12 +499,16 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
 
 def write_beam_figures(case: Case, level: Level, cuts: list[CutResult], folder: Path,
                        envelope: Envelope | None = None) -> list[Path]:
-    """The contours, one profile per cut and, given an envelope, the ratio along the member."""
+    """The contours, one profile per cut and all cuts in one (profiles.png), given an
+    envelope the ratio along the member, and the finest mesh (mesh.png)."""
     folder = Path(folder)
     out = [contour_figure(case, level, cuts, "txy", folder / "shear-contour.png"),
            contour_figure(case, level, cuts, "von_mises", folder / "von-mises-contour.png")]
     for i, c in enumerate(cuts):
         out.append(profile_figure(case, c, folder / f"profile-{i + 1:02d}.png"))
+    if cuts:
+        out.append(profiles_figure(case, cuts, folder / "profiles.png"))
     if envelope is not None:
         out.append(ratio_along_member_figure(case, envelope, folder / "ratio-along-member.png"))
+    out.append(mesh_figure(case, level, folder / "mesh.png"))
     return out

@@ -19,11 +19,12 @@ from pathlib import Path
 from typing import Any
 
 from classical.bending import shear_yield
-from fem.report.blocks import Block, Note, Section, Table, sci
+from fem.case.project import PROJECT_FIELDS, PROJECT_LABELS
+from fem.provenance import case_file_name
+from fem.report.blocks import Block, Figure, Note, Section, Table, sci
 from fem.report.convergence_figure import quantity_label
 from fem.report.html import render_html
 from fem.report.joint_note import joint_section, plane_section
-from fem.report.pdf import write_pdf
 from fem.report.section_note import (
     section_comparison,
     section_fe,
@@ -32,7 +33,7 @@ from fem.report.section_note import (
 )
 from fem.results import CAUTION, atomic_write
 
-__all__ = ["design_note", "write_report"]
+__all__ = ["design_note", "write_report", "title_block", "KEY_FIGURES", "PDF_MISSING"]
 
 # ----------------------------------------------------------------------------- content
 
@@ -58,7 +59,7 @@ def _inputs(res: Any) -> Section:
     m, g = c.material, c.geometry
     s = Section("Inputs")
     s.items.append(Table(["item", "value"], [
-        ["case file", c.file], ["kind", c.kind],
+        ["case file", case_file_name(c.file)], ["kind", c.kind],
         ["units", f"length {L}, force {F}, stress {S}"],
         ["material", f"E = {sci(m.E)} {S}, ν = {m.nu:g}"
          + (f", thickness t = {m.thickness:g} {L}" if c.kind == "beam" else "")
@@ -189,12 +190,10 @@ def _peaks_table(p: Any, fy: float | None, L: str, S: str) -> Table:
     return Table(head, body, caption)
 
 
-def _comparison(res: Any) -> Section:
+def _comparison_tables(res: Any) -> list[Table]:
+    """The comparison tables of a beam: peak stresses per cut, then resultants per cut."""
     (L, F, S), r = _units(res), res.result
-    s = Section("FE against hand")
     tol = r.tolerance
-    if res.case.kind != "beam":
-        return section_comparison(res)
     forces, stresses, bad = [], [], set()
     for i, c in enumerate(r.cuts, start=1):
         over = c.ratio is not None and c.ratio > 1 + tol
@@ -207,15 +206,48 @@ def _comparison(res: Any) -> Section:
         stresses.append([str(i), f"{c.x:g}", sci(c.tau_max_fe), sci(c.y_at_tau_max_fe),
                          sci(c.tau_max_hand), "–" if c.ratio is None else f"{c.ratio:.3f}",
                          status, sci(c.sigma_x_max_fe), sci(c.sigma_x_max_hand)])
-    s.items.append(Table(
+    return [Table(
         ["cut", f"x [{L}]", f"τmax FE [{S}]", f"at y [{L}]", f"τ hand [{S}]", "FE / hand",
          "shear check", f"|σx| max FE [{S}]", f"|σx| max hand [{S}]"], stresses,
         f"Peak stresses at each cut: τ hand is the {r.hand_method} value, FE from the finest "
-        f"mesh; tolerance {tol:.0%}", marked=bad))
-    s.items.append(Table(
+        f"mesh; tolerance {tol:.0%}", marked=bad), Table(
         ["cut", f"x [{L}]", f"V FE [{F}]", f"V hand [{F}]", f"M FE [{F}·{L}]",
          f"M hand [{F}·{L}]", f"N FE [{F}]", f"N hand [{F}]"], forces,
-        "Resultants at each cut: FE integrated over the cut, hand from statics"))
+        "Resultants at each cut: FE integrated over the cut, hand from statics")]
+
+
+def _comparison(res: Any) -> tuple[Table | None, Section]:
+    """The headline comparison table (for the summary) and the section with the rest."""
+    if res.case.kind != "beam":
+        sec = section_comparison(res)
+        tables = [it for it in sec.items if isinstance(it, Table)]
+        head = tables[0] if tables else None
+        sec.items = [it for it in sec.items if it is not head]
+        return head, sec
+    stresses, forces = _comparison_tables(res)
+    return stresses, Section("FE against hand", [forces])
+
+
+def _deflection(res: Any) -> Section | None:
+    """FE displacements beside the beam-theory deflection (informative, not the verdict)."""
+    d = res.result.deflection
+    if not d:
+        return None
+    L = res.result.units["length"]
+    s = Section("Deflection (informative)")
+    how = (f"Beam theory: {d['method']}." if d.get("hand") is not None else
+           f"No beam-theory value: {d['method'].removeprefix('no hand value: ')}.")
+    s.items.append(Block(
+        f"Largest FE displacement |u| = {sci(d['max_fe'])} {L} at ({sci(d['at'][0])}, "
+        f"{sci(d['at'][1])}) {L}, finest mesh. The deflection does not enter the shear "
+        f"verdict. {how}"))
+    rows = [[r["load"], sci(r["fe"][0], ref=d["max_fe"]), sci(r["fe"][1], ref=d["max_fe"]),
+             sci(r["hand"]), "–" if r["ratio"] is None else f"{r['ratio']:.3f}"]
+            for r in d.get("loads", [])]
+    s.items.append(Table(["load", f"FE ux [{L}]", f"FE uy [{L}]", f"hand uy [{L}]",
+                          "FE / hand"], rows,
+                         "Displacement at each load: FE mean over the loaded stretch (the "
+                         "node of a point load); hand: Timoshenko beam, bending plus shear"))
     return s
 
 
@@ -246,27 +278,43 @@ def _verdict_words(res: Any) -> str:
     return f"Verdict {r.verdict}: {reasons.get(r.verdict, '')}."
 
 
-def _findings(res: Any) -> Section:
+def _short(message: str, limit: int = 200) -> str:
+    """A finding's where and how much: its text up to the first ': ' or '; ' (the why
+    follows there), at most about `limit` characters."""
+    head = re.split(r": |; ", message, maxsplit=1)[0].rstrip(".")
+    if len(head) > limit:
+        head = head[:limit].rsplit(" ", 1)[0] + " …"
+    return head + "."
+
+
+def _findings(res: Any) -> tuple[list[Block], Section | None]:
+    """The summary's verdict and findings in short, and the findings in full."""
     r = res.result
-    s = Section("Verdict and findings")
-    s.items.append(Block(f"{r.verdict.upper()}. {_verdict_words(res)}", f"verdict-{r.verdict}"))
+    out = [Block(f"{r.verdict.upper()}. {_verdict_words(res)}", f"verdict-{r.verdict}")]
     main = [f for f in r.findings if f.kind != "excluded"]
-    for f in main:
-        s.items.append(Block(f"{f.kind}: {f.message}", "finding"))
+    out += [Block(f"{f.kind}: {_short(f.message)}", "finding") for f in main]
     if not main:
-        s.items.append(Block("No findings."))
+        out.append(Block("No findings."))
+        return out, None
+    full = Section("Findings in full", [Block(f"{f.kind}: {f.message}", "finding")
+                                        for f in main])
+    return out, full
+
+
+def _excluded(res: Any) -> Table | None:
+    r = res.result
     excl = [f for f in r.findings if f.kind == "excluded"]
-    if excl:
-        L = r.units["length"]
-        rows = []
-        for f in excl:
-            m = re.search(r"within (\S+) .*left out: (.*) is an idealisation", f.message)
-            rows.append([f"({sci(f.at[0])}, {sci(f.at[1])})", m[1] if m else "",
-                         m[2] if m else f.message])
-        s.items.append(Table([f"centre (x, y) [{L}]", f"radius [{L}]", "idealisation"], rows,
-                             "Left out of the peaks: zones around boundary idealisations, "
-                             "whose local stress has no finite limit"))
-    return s
+    if not excl:
+        return None
+    rows = []
+    for f in excl:
+        m = re.search(r"within (\S+) .*left out: (.*) is an idealisation", f.message)
+        rows.append([f"({sci(f.at[0])}, {sci(f.at[1])})", m[1] if m else "",
+                     m[2] if m else f.message])
+    L = r.units["length"]
+    return Table([f"centre (x, y) [{L}]", f"radius [{L}]", "idealisation"], rows,
+                 "Left out of the peaks: zones around boundary idealisations, whose local "
+                 "stress has no finite limit")
 
 
 def _convergence(res: Any) -> Section:
@@ -345,6 +393,11 @@ _CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), 
              "section-shear": "Shear stress magnitude |τ| over the section under the case's "
                               "shear, with the shear flow (arrows) and the FE peak.",
              "neutral-axis-profile": "FE and hand shear stress along the neutral axis.",
+             "profiles": "Shear stress τxy over the depth at every cut: FE (finest mesh) "
+                         "against the shear formula VQ/(Ib); each cut's figure with σx too is "
+                         "in the output folder (profile-NN.png).",
+             "mesh": "The finest mesh, with the refinement at the supports, loads, holes "
+                     "and corners.",
              "section-flow": "Shear flow over the section: arrows give the direction and size "
                              "of τ, colour |τ|; centroid (+), shear centre (×) and the joint "
                              "lines with their FE shear flow.",
@@ -368,32 +421,116 @@ def _caption(res: Any, p: Path) -> str:
     return p.stem.replace("-", " ").capitalize() + "."
 
 
+KEY_FIGURES = ("ratio-along-member", "section-shear", "shear-contour")
+
+
+def _key_figure(figs: list[Figure]) -> Figure | None:
+    """The summary's figure: the ratio along the member (beams), the section's |τ|."""
+    for stem in KEY_FIGURES:
+        for f in figs:
+            if f.path.stem == stem:
+                return f
+    return figs[0] if figs else None
+
+
+def title_block(project: Any) -> list[tuple[str, str]]:
+    """(label, value) of every title-block field but notes; blank where not given."""
+    return [(PROJECT_LABELS[k], getattr(project, k, "") if project is not None else "")
+            for k in PROJECT_FIELDS if k != "notes"]
+
+
+def _appendix(res: Any) -> list[Section]:
+    """Provenance (versions, case hash, time) and the case file exactly as run."""
+    c, prov = res.case, res.result.provenance or {}
+    name = case_file_name(c.file)
+    out = []
+    if prov:
+        pairs = [("shearcheck", prov.get("shearcheck")), ("Python", prov.get("python"))]
+        pairs += list((prov.get("packages") or {}).items())
+        pairs += [("run (UTC)", prov.get("run_utc")), ("platform", prov.get("platform"))]
+        half = -(-len(pairs) // 2)
+        left, right = pairs[:half], pairs[half:] + [("", "")] * (2 * half - len(pairs))
+        rows = [[a, str(va), b, str(vb)] for (a, va), (b, vb) in zip(left, right, strict=True)]
+        out.append(Section("Appendix A: provenance", [
+            Table(["software", "version", "software", "version"], rows,
+                  "What produced this note"),
+            Block(f"Case file {prov.get('case_file')}, SHA-256 {prov.get('case_sha256')}; "
+                  f"run {prov.get('run_utc')}. Running the case file of Appendix B with these "
+                  "versions reproduces this note.", "small")]))
+    if c.text:
+        out.append(Section(f"Appendix B: the case file {name}, exactly as run", [
+            Block(c.text.replace("\r\n", "\n").rstrip("\n"), "code")]))
+    return out
+
+
 def design_note(res: Any, figures: list[Path]) -> Note:
-    """The content of the design note of a finished check."""
-    r = res.result
-    sections = [_findings(res), _inputs(res), _hand(res)]
-    if r.kind == "beam":
-        sections.append(_fe(res))
-    else:
-        sections.append(section_fe(res))
-    sections.append(_comparison(res))
+    """The content of the design note of a finished check.
+
+    First page (the summary): the verdict, the findings, the key figure and the comparison
+    table; then the findings in full, the inputs, the hand calculation, the FE model, the
+    rest of the comparison, the deflection, the convergence study, the assumptions, the
+    other figures two to a page, and the provenance and case file in the appendices.
+    """
+    r, c = res.result, res.case
+    paths = [Path(p) for p in figures if Path(p).suffix == ".png"]
+    if any(p.stem == "profiles" for p in paths):  # the overview stands for the cut figures
+        paths = [p for p in paths if not p.stem.startswith("profile-")]
+    figs = [Figure(p, _caption(res, p)) for p in paths]
+    key = _key_figure(figs)
+    head, rest = _comparison(res)
+    short, full = _findings(res)
+    summary = Section("Summary", short)
+    if head is not None:
+        summary.items.append(head)
+    if key is not None:
+        summary.items.append(key)
+    fe = _fe(res) if r.kind == "beam" else section_fe(res)
+    excl = _excluded(res)
+    if excl is not None:
+        fe.items.append(excl)
+    inputs = _inputs(res)
+    sections = [summary, *([full] if full is not None else []), inputs, _hand(res), fe, rest]
     sections += [j for j in (joint_section(res), plane_section(res)) if j is not None]
-    sections += [_convergence(res), _assumptions(res)]
-    figs = [(Path(p), _caption(res, Path(p))) for p in figures if Path(p).suffix == ".png"]
-    return Note(title=r.title, subtitle=f"case {r.case} · {r.kind} check · shearcheck",
-                verdict=r.verdict, sections=sections, figures=figs)
+    defl = _deflection(res)
+    if defl is not None:
+        sections.append(defl)
+    sections.append(_convergence(res))
+    sections.append(_assumptions(res))
+    others = [f for f in figs if f is not key]
+    if others:
+        sections.append(Section("Figures", list(others), pair=True))
+    sections += _appendix(res)
+    prov = r.provenance or {}
+    version = prov.get("shearcheck")
+    return Note(title=r.title,
+                subtitle=f"case {case_file_name(c.file)} · {r.kind} check · shearcheck"
+                         + (f" {version}" if version else "")
+                         + (f" · run {prov['run_utc']}" if prov.get("run_utc") else ""),
+                verdict=r.verdict, sections=sections, title_block=title_block(c.project),
+                remarks=c.project.notes if c.project is not None else "", caution=CAUTION)
+
+
+PDF_MISSING = ("report.pdf not written: the PDF library ReportLab cannot be imported ({why}); "
+               "install it with `pip install reportlab`. report.html holds the same note.")
 
 
 def write_report(res: Any, folder: Path, figures: list[Path] | None = None) -> list[Path]:
     """report.html and report.pdf of a finished check into `folder`; return their paths.
 
-    `figures` are the PNG files to include (default: those the check has written).
+    `figures` are the PNG files to include (default: those the check has written). Where
+    ReportLab cannot be imported the PDF is skipped: `res.result.pdf_skipped` says why (it
+    goes into results.json and the console summary), and the HTML is written all the same.
     """
-
     folder = Path(folder)
     note = design_note(res, list(figures if figures is not None else res.figures))
     out_html = folder / "report.html"
     atomic_write(out_html, render_html(note).encode("utf-8"))
+    try:
+        from fem.report.pdf import write_pdf
+    except ImportError as exc:
+        res.result.pdf_skipped = PDF_MISSING.format(why=exc)
+        return [out_html]
+    res.result.pdf_skipped = None
     out_pdf = folder / "report.pdf"
     write_pdf(note, out_pdf)
     return [out_html, out_pdf]

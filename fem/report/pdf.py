@@ -1,250 +1,424 @@
-"""The design note (`fem.report.blocks.Note`) as PDF, drawn with matplotlib on A4 pages.
+"""A document (`fem.report.blocks.Note`) as PDF, typeset with ReportLab's page layout engine.
 
-The text pages are laid out top to bottom: headings, paragraphs wrapped by measured text
-width, tables with columns sized to their widest cell (the font shrinks, down to 5 pt, until
-a table fits the page; its header repeats on a new page). Then one page per figure with its
-caption. Every page carries the caution in its footer.
+ReportLab (platypus) flows the note's paragraphs, tables and figures over A4 pages: tables
+split across pages with their header row repeated, a heading stays with what follows, a
+figure stays with its caption, and figures of a `pair` section are sized to go two to a
+page. Every page carries the title block in its header and the caution and "page N of M"
+in its footer. The fonts are the DejaVu faces that matplotlib ships (Greek letters,
+sub- and superscripts, the true minus), embedded as subsets.
+
+`write_pdf(note, path)` is the entry point; `fem.report.note.write_report` skips the PDF
+with a stated reason where ReportLab cannot be imported.
 """
 
 from __future__ import annotations
 
 import functools
+import io
 from pathlib import Path
 from typing import Any
+from xml.sax.saxutils import escape
 
-import matplotlib.image as mpimg
-import matplotlib.pyplot as plt
-import numpy as np
-from matplotlib.backends.backend_pdf import PdfPages
-from matplotlib.font_manager import FontProperties, findfont, get_font
-from matplotlib.lines import Line2D
+from reportlab.lib import colors
+from reportlab.lib.enums import TA_LEFT, TA_RIGHT
+from reportlab.lib.pagesizes import A4
+from reportlab.lib.styles import ParagraphStyle
+from reportlab.lib.units import mm
+from reportlab.lib.utils import ImageReader
+from reportlab.pdfbase import pdfmetrics
+from reportlab.pdfbase.ttfonts import TTFont
+from reportlab.pdfgen import canvas as rl_canvas
+from reportlab.platypus import (
+    BaseDocTemplate,
+    CondPageBreak,
+    Flowable,
+    Frame,
+    HRFlowable,
+    KeepTogether,
+    PageBreak,
+    PageTemplate,
+    Paragraph,
+    Preformatted,
+    Spacer,
+    TableStyle,
+)
+from reportlab.platypus import Table as RLTable
+from reportlab.platypus.flowables import BalancedColumns
 
-from fem.report import member_figures  # noqa: F401  (selects the Agg backend)
-from fem.report.blocks import Note, Table, numeric_columns
-from fem.results import CAUTION, atomic_write
+from fem.report.blocks import Block, Figure, Note, Section, Table, numeric_columns
+from fem.results import atomic_write
 
-__all__ = ["write_pdf", "PAGE", "MARGIN"]
+__all__ = ["write_pdf", "MARGIN", "HEADER", "FOOTER"]
 
-PAGE = (8.27, 11.69)      # A4, inches
-MARGIN = 0.7
-_W = PAGE[0] - 2 * MARGIN
-_COLOUR = {"unsafe": "#a51d2d", "holds": "#26734d", "inconclusive": "#8a5a00"}
-INK, MUTE = "#1d2327", "#5b6770"
-
-
-@functools.lru_cache(maxsize=8)
-def _font(mono: bool, bold: bool) -> Any:
-    fp = FontProperties(family="monospace" if mono else "sans-serif",
-                        weight="bold" if bold else "normal")
-    return get_font(findfont(fp))
+MARGIN = 15 * mm      # left, right
+HEADER = 27 * mm      # top band: title line and title block
+FOOTER = 13 * mm      # bottom band: caution, page N of M
+INK = colors.HexColor("#1d2327")
+MUTE = colors.HexColor("#5b6770")
+RULE = colors.HexColor("#c9d0d5")
+SOFT = colors.HexColor("#f1f3f5")
+MARK = colors.HexColor("#fbeaea")
+VERDICT = {"unsafe": "#a51d2d", "holds": "#26734d", "inconclusive": "#8a5a00"}
+CAUTION_INK = colors.HexColor("#7a4e00")
 
 
-@functools.lru_cache(maxsize=4096)
-def _advance(ch: str, mono: bool, bold: bool) -> float:
-    """Advance width of one character at 100 pt, in points."""
-    font = _font(mono, bold)
-    font.set_size(100.0, 72)
-    font.set_text(ch, 0.0)
-    return font.get_width_height()[0] / 64
+@functools.lru_cache(maxsize=1)
+def _fonts() -> dict[str, str]:
+    """Register the DejaVu faces matplotlib ships; fall back to the PDF base fonts."""
+    names = {"sans": "Helvetica", "bold": "Helvetica-Bold", "italic": "Helvetica-Oblique",
+             "mono": "Courier", "mono-bold": "Courier-Bold"}
+    try:
+        from matplotlib import get_data_path
+
+        ttf = Path(get_data_path()) / "fonts" / "ttf"
+        faces = {"sans": "DejaVuSans.ttf", "bold": "DejaVuSans-Bold.ttf",
+                 "italic": "DejaVuSans-Oblique.ttf", "mono": "DejaVuSansMono.ttf",
+                 "mono-bold": "DejaVuSansMono-Bold.ttf"}
+        for key, file in faces.items():
+            name = f"SC-{file.removesuffix('.ttf')}"
+            if name not in pdfmetrics.getRegisteredFontNames():
+                pdfmetrics.registerFont(TTFont(name, str(ttf / file)))
+            names[key] = name
+        pdfmetrics.registerFontFamily(names["sans"], normal=names["sans"], bold=names["bold"],
+                                      italic=names["italic"], boldItalic=names["bold"])
+    except Exception:  # noqa: BLE001 - any missing face: the base fonts still typeset
+        pass
+    return names
 
 
-def _width(s: str, size: float, mono: bool = False, bold: bool = False) -> float:
-    """Drawn width of `s` in inches: the sum of the font's advances (kerning ignored)."""
-    return sum(_advance(ch, mono, bold) for ch in s) * size / 100 / 72
+@functools.lru_cache(maxsize=1)
+def _styles() -> dict[str, ParagraphStyle]:
+    f = _fonts()
+    base = ParagraphStyle("body", fontName=f["sans"], fontSize=8.2, leading=10.8,
+                          textColor=INK, spaceAfter=4)
+    return {
+        "body": base,
+        "kicker": ParagraphStyle("kicker", base, fontSize=7.5, textColor=MUTE, spaceAfter=1),
+        "title": ParagraphStyle("title", base, fontName=f["bold"], fontSize=15, leading=18,
+                                spaceAfter=2),
+        "sub": ParagraphStyle("sub", base, textColor=MUTE, spaceAfter=5),
+        "h2": ParagraphStyle("h2", base, fontName=f["bold"], fontSize=11, leading=14,
+                             spaceBefore=9, spaceAfter=2, keepWithNext=1),
+        "small": ParagraphStyle("small", base, fontSize=7, leading=9, textColor=MUTE),
+        "caption": ParagraphStyle("caption", base, fontSize=7.5, leading=9.5, textColor=MUTE,
+                                  spaceBefore=2, spaceAfter=8),
+        "tcaption": ParagraphStyle("tcaption", base, fontName=f["bold"], fontSize=7.5,
+                                   leading=9.5, textColor=MUTE, spaceBefore=3, spaceAfter=2,
+                                   keepWithNext=1),
+        "finding": ParagraphStyle("finding", base, fontSize=7.6, leading=9.7, leftIndent=9,
+                                  bulletIndent=0, spaceAfter=3),
+        "bullet": ParagraphStyle("bullet", base, leftIndent=9, bulletIndent=0, spaceAfter=2),
+        "caution": ParagraphStyle("caution", base, fontName=f["italic"], fontSize=8,
+                                  textColor=CAUTION_INK),
+        "cell": ParagraphStyle("cell", base, fontSize=6.9, leading=8.3, spaceAfter=0),
+        "cell-r": ParagraphStyle("cell-r", base, fontSize=6.9, leading=8.3, spaceAfter=0,
+                                 alignment=TA_RIGHT),
+        "head": ParagraphStyle("head", base, fontName=f["bold"], fontSize=6.9, leading=8.3,
+                               spaceAfter=0),
+        "head-r": ParagraphStyle("head-r", base, fontName=f["bold"], fontSize=7.2,
+                                 leading=8.8, spaceAfter=0, alignment=TA_RIGHT),
+        "verdict": ParagraphStyle("verdict", base, fontName=f["bold"], fontSize=9,
+                                  leading=12, textColor=colors.white, alignment=TA_LEFT,
+                                  spaceAfter=0),
+        "mono": ParagraphStyle("mono", base, fontName=f["mono"], fontSize=6.5, leading=8.0,
+                               spaceAfter=6),
+        "code": ParagraphStyle("code", base, fontName=f["mono"], fontSize=5.5, leading=6.6,
+                               spaceAfter=4),
+        "mono-head": ParagraphStyle("mono-head", base, fontName=f["mono-bold"], fontSize=6.5,
+                                    leading=8.0, spaceAfter=0, keepWithNext=1),
+    }
 
 
-def _wrap(text: str, size: float, width: float, mono: bool, bold: bool,
-          hang: str) -> list[str]:
-    lines: list[str] = []
-    for raw in text.split("\n"):
-        if _width(raw, size, mono, bold) <= width:
-            lines.append(raw)  # fits: keep its spacing
-            continue
-        lead = raw[: len(raw) - len(raw.lstrip())]
-        words, line = raw.split(), lead
-        for w in words:
-            trial = f"{line} {w}" if line.strip() else f"{line}{w}"
-            if line.strip() and _width(trial, size, mono, bold) > width:
-                lines.append(line)
-                line = f"{lead}{hang}{w}"
+def _p(text: str, style: str) -> Paragraph:
+    return Paragraph(escape(text).replace("\n", "<br/>"), _styles()[style])
+
+
+def _pre(text: str, style: str, width: float) -> Preformatted:
+    st = _styles()[style]
+    per_line = max(20, int(width / (0.602 * st.fontSize)))  # DejaVu Sans Mono advance
+    return Preformatted(text, st, maxLineLength=per_line, newLineChars="    ")
+
+
+# ------------------------------------------------------------------------------ tables
+
+def _col_widths(t: Table, width: float, font: str, size: float) -> list[float]:
+    """Natural widths of the cells, the widest columns capped so the table fits `width`."""
+    pad = 12.0   # cell padding (3 + 3) and a margin for the line breaker
+    n = len(t.header)
+    nat = []
+    for j in range(n):
+        cells = [r[j] for r in t.rows if j < len(r)]
+        body = max([pdfmetrics.stringWidth(c, font, size) for c in cells] or [0.0])
+        word = max([pdfmetrics.stringWidth(w, _fonts()["bold"], size)
+                    for w in t.header[j].split()] or [0.0])
+        nat.append(max(body, word) + pad)   # a header wraps between words, never inside
+    if n == 2:  # an item / value list: the value column takes the rest of the line
+        first = min(nat[0], 0.34 * width)
+        return [first, width - first]
+    if sum(nat) <= width:
+        return nat
+    lo, hi = 0.0, max(nat)
+    for _ in range(40):  # the cap c with sum(min(nat, c)) = width
+        c = 0.5 * (lo + hi)
+        lo, hi = (c, hi) if sum(min(w, c) for w in nat) < width else (lo, c)
+    return [min(w, lo) for w in nat]
+
+
+def _table(t: Table, width: float) -> list[Flowable]:
+    st = _styles()
+    kv = len(t.header) == 2
+    right = [not kv and c for c in numeric_columns(t)]
+    widths = _col_widths(t, width, _fonts()["sans"], st["cell"].fontSize)
+    head = [Paragraph(escape(h), st["head-r" if right[j] else "head"])
+            for j, h in enumerate(t.header)]
+    rows = [head] + [[Paragraph(escape(c), st["cell-r" if j < len(right) and right[j]
+                                            else "cell"]) for j, c in enumerate(r)]
+                     for r in t.rows]
+    tbl = RLTable(rows, colWidths=widths, repeatRows=1, hAlign="LEFT")
+    cmds: list[tuple[Any, ...]] = [
+        ("BACKGROUND", (0, 0), (-1, 0), SOFT),
+        ("LINEBELOW", (0, 0), (-1, 0), 0.6, MUTE),
+        ("LINEBELOW", (0, 1), (-1, -1), 0.3, RULE),
+        ("VALIGN", (0, 0), (-1, -1), "TOP"),
+        ("TOPPADDING", (0, 0), (-1, -1), 1.6),
+        ("BOTTOMPADDING", (0, 0), (-1, -1), 1.8),
+        ("LEFTPADDING", (0, 0), (-1, -1), 3),
+        ("RIGHTPADDING", (0, 0), (-1, -1), 3),
+    ]
+    cmds += [("BACKGROUND", (0, k + 1), (-1, k + 1), MARK) for k in sorted(t.marked)]
+    tbl.setStyle(TableStyle(cmds))
+    out: list[Flowable] = []
+    if t.caption:
+        out.append(_p(t.caption, "tcaption"))
+    out += [tbl, Spacer(1, 6)]
+    return out
+
+
+# ------------------------------------------------------------------------------ blocks
+
+def _verdict(text: str, verdict: str, width: float) -> Flowable:
+    tbl = RLTable([[_p(text, "verdict")]], colWidths=[width])
+    tbl.setStyle(TableStyle([
+        ("BACKGROUND", (0, 0), (-1, -1), colors.HexColor(VERDICT.get(verdict, "#444444"))),
+        ("LEFTPADDING", (0, 0), (-1, -1), 8), ("RIGHTPADDING", (0, 0), (-1, -1), 8),
+        ("TOPPADDING", (0, 0), (-1, -1), 5), ("BOTTOMPADDING", (0, 0), (-1, -1), 6)]))
+    return KeepTogether([tbl, Spacer(1, 5)])
+
+
+def _block(b: Block, width: float) -> list[Flowable]:
+    if b.style == "formula":
+        head, _, rest = b.text.partition("\n")
+        return [_pre(head, "mono-head", width), _pre(rest, "mono", width)]
+    if b.style == "code":  # verbatim text in balanced columns
+        n = 3   # long lines wrap within their column (Preformatted's maxLineLength)
+        col = width / n - 8
+        return [BalancedColumns([_pre(b.text, "code", col)], nCols=n, spaceBefore=2,
+                                innerPadding=8)]
+    if b.style == "finding":
+        kind, _, msg = b.text.partition(": ")
+        return [Paragraph(f"<b>{escape(kind)}</b> — {escape(msg)}", _styles()["finding"],
+                          bulletText="•")]
+    if b.style == "bullet":
+        return [Paragraph(escape(b.text), _styles()["bullet"], bulletText="•")]
+    if b.style == "caution":
+        return [Paragraph(f"<b>Caution.</b> {escape(b.text)}", _styles()["caution"])]
+    if b.style.startswith("verdict-"):
+        return [_verdict(b.text, b.style.removeprefix("verdict-"), width)]
+    return [_p(b.text, "small" if b.style == "small" else "body")]
+
+
+class _FigureBlock(Flowable):
+    """A figure and its caption as one piece: the image as large as `max_h` allows, shrunk
+    to the room left on the page down to `min_h`; below that it goes whole to the next page
+    (a figure is never parted from its caption)."""
+
+    GAP = 3.0
+
+    def __init__(self, path: Path, caption: Paragraph, max_h: float, min_h: float) -> None:
+        super().__init__()
+        self.path = str(path)
+        self.iw, self.ih = ImageReader(self.path).getSize()
+        self.caption, self.max_h, self.min_h = caption, max_h, min_h
+        self.w = self.h = self.cap_h = 0.0
+
+    def _fit(self, avail_w: float, h: float) -> float:
+        scale = min(avail_w / self.iw, h / self.ih)
+        self.w, self.h = self.iw * scale, self.ih * scale
+        self.cap_h = self.caption.wrap(avail_w, 1e6)[1]
+        return self.h + self.GAP + self.cap_h + self.caption.style.spaceAfter
+
+    def wrap(self, avail_w: float, avail_h: float) -> tuple[float, float]:
+        self.avail_w = avail_w
+        need = self._fit(avail_w, self.max_h)
+        if need > avail_h:
+            extra = self.GAP + self.cap_h + self.caption.style.spaceAfter
+            if avail_h - extra >= self.min_h:
+                need = self._fit(avail_w, min(self.max_h, avail_h - extra))
+        return avail_w, need
+
+    def split(self, avail_w: float, avail_h: float) -> list[Flowable]:
+        return []   # whole on the next page
+
+    def draw(self) -> None:
+        total = self.h + self.GAP + self.cap_h + self.caption.style.spaceAfter
+        x = 0.5 * (self.avail_w - self.w)
+        self.canv.drawImage(self.path, x, total - self.h, self.w, self.h)
+        self.caption.drawOn(self.canv, 0, self.caption.style.spaceAfter)
+
+
+def _figure(f: Figure, number: int, width: float, max_h: float, min_h: float) -> Flowable:
+    return _FigureBlock(f.path, _p(f"Figure {number}. {f.caption}", "caption"), max_h, min_h)
+
+
+# ------------------------------------------------------------------------------- pages
+
+class _Layout:
+    """Page geometry and the header/footer drawn on every page."""
+
+    def __init__(self, note: Note) -> None:
+        self.note = note
+        self.page_w, self.page_h = A4
+        self.width = self.page_w - 2 * MARGIN
+        self.height = self.page_h - HEADER - FOOTER - 6 * mm
+
+    def header(self, c: rl_canvas.Canvas) -> None:
+        f, note = _fonts(), self.note
+        top = self.page_h - 9 * mm
+        c.saveState()
+        c.setFillColor(INK)
+        c.setFont(f["bold"], 8.5)
+        c.drawString(MARGIN, top, _fit(note.title, f["bold"], 8.5, 0.68 * self.width))
+        c.setFont(f["sans"], 7)
+        c.setFillColor(MUTE)
+        c.drawRightString(self.page_w - MARGIN, top, note.kicker)
+        pairs = note.title_block
+        if pairs:
+            cols = 4
+            cw = self.width / cols
+            rows = (len(pairs) + cols - 1) // cols
+            y0 = top - 4 * mm
+            rh = 6.6 * mm
+            c.setStrokeColor(RULE)
+            c.setLineWidth(0.5)
+            for k, (label, value) in enumerate(pairs):
+                r, q = divmod(k, cols)
+                x, y = MARGIN + q * cw, y0 - (r + 1) * rh
+                c.rect(x, y, cw, rh, stroke=1, fill=0)
+                c.setFillColor(MUTE)
+                c.setFont(f["sans"], 5.6)
+                c.drawString(x + 2.2, y + rh - 7.2, label.upper())
+                c.setFillColor(INK)
+                c.setFont(f["sans"], 7.6)
+                c.drawString(x + 2.2, y + 3.2, _fit(value, f["sans"], 7.6, cw - 5))
+            for k in range(len(pairs), rows * cols):  # blank cells keep the grid
+                r, q = divmod(k, cols)
+                c.rect(MARGIN + q * cw, y0 - (r + 1) * rh, cw, rh, stroke=1, fill=0)
+        c.restoreState()
+
+    def footer(self, c: rl_canvas.Canvas, page: int, pages: int) -> None:
+        f = _fonts()
+        c.saveState()
+        c.setStrokeColor(RULE)
+        c.setLineWidth(0.5)
+        y = FOOTER
+        c.line(MARGIN, y, self.page_w - MARGIN, y)
+        c.setFont(f["italic"], 6.4)
+        c.setFillColor(CAUTION_INK)
+        c.drawString(MARGIN, y - 9, _fit(self.note.caution, f["italic"], 6.4,
+                                         self.width - 60))
+        c.setFont(f["sans"], 7)
+        c.setFillColor(INK)
+        c.drawRightString(self.page_w - MARGIN, y - 9, f"page {page} of {pages}")
+        c.setFont(f["sans"], 6.2)
+        c.setFillColor(MUTE)
+        c.drawString(MARGIN, y - 18, _fit(self.note.subtitle, f["sans"], 6.2, self.width))
+        c.restoreState()
+
+
+def _fit(text: str, font: str, size: float, width: float) -> str:
+    """`text` on one line within `width` points, shortened with an ellipsis if need be."""
+    text = " ".join(text.split())
+    if pdfmetrics.stringWidth(text, font, size) <= width:
+        return text
+    while text and pdfmetrics.stringWidth(text + "…", font, size) > width:
+        text = text[:-1]
+    return text.rstrip() + "…"
+
+
+def _canvas_class(layout: _Layout, count: list[int]) -> type:
+    """A canvas that holds its pages back until the end, to write "page N of M"."""
+
+    class _Numbered(rl_canvas.Canvas):
+        def __init__(self, *args: Any, **kwargs: Any) -> None:
+            super().__init__(*args, **kwargs)
+            self._held: list[dict[str, Any]] = []
+
+        def showPage(self) -> None:  # noqa: N802 - ReportLab's name
+            self._held.append(dict(self.__dict__))
+            self._startPage()
+
+        def save(self) -> None:
+            count[0] = len(self._held)
+            for k, state in enumerate(self._held, start=1):
+                self.__dict__.update(state)
+                layout.footer(self, k, count[0])
+                super().showPage()
+            super().save()
+
+    return _Numbered
+
+
+def _story(note: Note, lay: _Layout) -> list[Flowable]:
+    st = _styles()
+    story: list[Flowable] = [_p(note.kicker.upper(), "kicker"), _p(note.title, "title"),
+                             _p(note.subtitle, "sub")]
+    if note.remarks:
+        story.append(_p(note.remarks, "body"))
+    number = 0
+    pair_h = 0.5 * (lay.height - 2 * 30)  # two figures and their captions on one page
+    for k, s in enumerate(note.sections):
+        if s.new_page and k > 0:
+            story.append(PageBreak())
+        elif k > 0:
+            story.append(CondPageBreak(40 * mm))
+        story += [Paragraph(escape(s.title), st["h2"]),
+                  HRFlowable(width="100%", thickness=0.6, color=MUTE, spaceAfter=5)]
+        story += _items(s, lay, pair_h, number)
+        number += sum(isinstance(it, Figure) for it in s.items)
+    return story
+
+
+def _items(s: Section, lay: _Layout, pair_h: float, first: int) -> list[Flowable]:
+    out: list[Flowable] = []
+    number = first
+    for it in s.items:
+        if isinstance(it, Figure):
+            number += 1
+            if s.pair:
+                out.append(_figure(it, number, lay.width, pair_h, pair_h))
             else:
-                line = trial
-        lines.append(line)
-    return lines
-
-
-class _Pages:
-    """A top-to-bottom text layout on A4 matplotlib figures."""
-
-    def __init__(self, pdf: PdfPages, footer: str) -> None:
-        self.pdf, self.footer, self.count = pdf, footer, 0
-        self.fig: Any = None
-        self.y = 0.0
-        self.new()
-
-    def new(self) -> None:
-        self.flush()
-        self.fig = plt.figure(figsize=PAGE)
-        self.count += 1
-        self.y = PAGE[1] - MARGIN
-        _footer(self.fig, f"{self.footer}   ·   page {self.count}")
-
-    def flush(self) -> None:
-        if self.fig is not None:
-            self.pdf.savefig(self.fig)
-            plt.close(self.fig)
-            self.fig = None
-
-    def need(self, inches: float) -> None:
-        if self.y - inches < MARGIN:
-            self.new()
-
-    def put(self, x: float, s: str, size: float, **kw: Any) -> None:
-        self.fig.text(x / PAGE[0], self.y / PAGE[1], s, fontsize=size, va="baseline",
-                      parse_math=False, **kw)
-
-    def para(self, text: str, size: float = 9.0, mono: bool = False, bold: bool = False,
-             hang: str = "", gap: float = 0.5, keep: float = 0.0, **kw: Any) -> None:
-        """Wrapped text; `keep` inches more must fit on the page, or a new page begins."""
-        step = size * 1.45 / 72
-        lines = _wrap(text, size, _W, mono, bold, hang)
-        self.need(len(lines) * step + keep)
-        for line in lines:
-            self.need(step)
-            self.y -= step
-            self.put(MARGIN, line, size, family="monospace" if mono else "sans-serif",
-                     fontweight="bold" if bold else "normal", **kw)
-        self.y -= size * gap / 72
-
-    def rule(self, width: float = _W, dy: float = 0.05) -> None:
-        y = (self.y - dy) / PAGE[1]
-        self.fig.add_artist(Line2D([MARGIN / PAGE[0], (MARGIN + width) / PAGE[0]], [y, y],
-                                   lw=0.6, color="#999999"))
-
-    def table(self, t: Table) -> None:
-        heads = [h.replace(" [", "\n[").split("\n") for h in t.header]
-        size = 8.0
-        while True:
-            pad = 0.12 * size / 8.0
-            colw = [max([_width(x, size, bold=True) for x in hd]
-                        + [_width(r[j], size) for r in t.rows if j < len(r)]) + pad
-                    for j, hd in enumerate(heads)]
-            if sum(colw) <= _W or size <= 5.0:
-                break
-            size -= 0.5
-        row_h = size * 1.55 / 72
-        n_head = max(len(h) for h in heads)
-        right = numeric_columns(t) if len(t.header) > 2 else [False] * len(t.header)
-        gap = 0.12 * size / 8.0
-
-        def header() -> None:
-            for k in range(n_head):
-                self.y -= row_h
-                x = MARGIN
-                for j, hd in enumerate(heads):
-                    if k < len(hd):
-                        self._cell(x, colw[j] - gap, right[j], hd[k], size, fontweight="bold")
-                    x += colw[j]
-            self.rule(sum(colw), 0.05)
-            self.y -= 0.07
-
-        if t.caption:
-            self.need(row_h * (n_head + 3) + 0.2)
-            self.para(t.caption, 7.5, color=MUTE, gap=0.2)
-        self.need(row_h * (n_head + 2))
-        header()
-        for k, r in enumerate(t.rows):
-            if self.y - row_h < MARGIN:
-                self.new()
-                header()
-            self.y -= row_h
-            x = MARGIN
-            for j, c in enumerate(r[: len(colw)]):
-                self._cell(x, colw[j] - gap, right[j], c, size,
-                           color=_COLOUR["unsafe"] if k in t.marked else INK)
-                x += colw[j]
-        self.y -= 0.15
-
-    def _cell(self, x: float, w: float, right: bool, s: str, size: float, **kw: Any) -> None:
-        if right:
-            self.put(x + w, s, size, ha="right", **kw)
+                out.append(_figure(it, number, lay.width, 0.38 * lay.height,
+                                   0.22 * lay.height))
+        elif isinstance(it, Table):
+            out += _table(it, lay.width)
         else:
-            self.put(x, s, size, **kw)
-
-
-def _footer(fig: Any, text: str) -> None:
-    fig.text(0.5, 0.3 / PAGE[1], text, ha="center", fontsize=6.5, color="#666666",
-             parse_math=False)
-
-
-def _text_pages(note: Note, pdf: PdfPages) -> int:
-    pg = _Pages(pdf, f"{note.subtitle}   ·   {CAUTION}")
-    pg.para("DESIGN NOTE · SHEAR VERIFICATION", 8.0, color=MUTE, gap=0.2)
-    pg.para(note.title, 16.0, bold=True, gap=0.2)
-    pg.para(note.subtitle, 9.0, color=MUTE)
-    pg.para(note.verdict.upper(), 13.0, bold=True, color=_COLOUR.get(note.verdict, INK))
-    pg.para("Caution. " + CAUTION, 8.5, color="#8a5a00", style="italic")
-    for s in note.sections:
-        pg.need(1.0)
-        pg.y -= 0.15
-        pg.para(s.title, 12.0, bold=True, gap=0.0)
-        pg.rule()
-        pg.y -= 0.1
-        for it in s.items:
-            if isinstance(it, Table):
-                pg.table(it)
-            elif it.style == "formula":
-                head, _, rest = it.text.partition("\n")  # a block stays on one page
-                body = len(_wrap(rest, 7.5, _W, True, False, "    ")) * 7.5 * 1.45 / 72
-                pg.para(head, 7.5, mono=True, bold=True, hang="    ", gap=0.0, keep=body)
-                pg.para(rest, 7.5, mono=True, hang="    ", gap=1.6)
-            elif it.style.startswith("verdict"):
-                pg.para(it.text, 10.0, bold=True, color=_COLOUR.get(note.verdict, INK))
-            elif it.style in ("finding", "bullet"):
-                pg.para("• " + it.text, 8.5, hang="  ")
-            elif it.style == "caution":
-                pg.para("Caution. " + it.text, 8.5, color="#8a5a00", style="italic")
-            elif it.style == "small":
-                pg.para(it.text, 7.5, color=MUTE)
-            else:
-                pg.para(it.text, 9.0)
-    pg.flush()
-    return pg.count
-
-
-def _figure_page(pdf: PdfPages, p: Path, caption: str, title: str, footer: str) -> None:
-    fig = plt.figure(figsize=PAGE)
-    img = (np.clip(mpimg.imread(p), 0.0, 1.0) * 255).round().astype(np.uint8)  # as stored
-    h, w = img.shape[:2]
-    scale = min(_W / w, (PAGE[1] - 2 * MARGIN - 1.2) / h)
-    top = PAGE[1] - MARGIN - 0.45
-    ax = fig.add_axes(((PAGE[0] - w * scale) / 2 / PAGE[0], (top - h * scale) / PAGE[1],
-                       w * scale / PAGE[0], h * scale / PAGE[1]))
-    ax.imshow(img, interpolation="none")  # embedded at its own resolution, not resampled
-    ax.set_axis_off()
-    fig.text(MARGIN / PAGE[0], (PAGE[1] - MARGIN) / PAGE[1], title, fontsize=12,
-             fontweight="bold", va="top", parse_math=False)
-    lines = _wrap(caption, 8.5, _W, False, False, "")
-    fig.text(MARGIN / PAGE[0], (top - h * scale - 0.2) / PAGE[1], "\n".join(lines),
-             fontsize=8.5, va="top", color="#333333", parse_math=False)
-    _footer(fig, footer)
-    pdf.savefig(fig)
-    plt.close(fig)
+            out += _block(it, lay.width)
+    return out
 
 
 def write_pdf(note: Note, path: Path) -> int:
-    """Write the note as PDF (text pages, then one page per figure); return the page count."""
-    path = Path(path)
-    tmp = path.with_name(f".{path.name}.part")
-    try:
-        with PdfPages(tmp, metadata={"Title": f"{note.title} — design note",
-                                     "Subject": CAUTION, "Creator": "shearcheck"}) as pdf:
-            pages = _text_pages(note, pdf)
-            for j, (p, cap) in enumerate(note.figures, start=1):
-                pages += 1
-                _figure_page(pdf, p, cap, f"Figure {j}",
-                             f"{note.subtitle}   ·   {CAUTION}   ·   page {pages}")
-        atomic_write(path, tmp.read_bytes())
-    finally:
-        tmp.unlink(missing_ok=True)
-    return pages
+    """Typeset `note` as an A4 PDF at `path` (written atomically); return the page count."""
+    lay = _Layout(note)
+    buf = io.BytesIO()
+    doc = BaseDocTemplate(buf, pagesize=A4, leftMargin=MARGIN, rightMargin=MARGIN,
+                          topMargin=HEADER, bottomMargin=FOOTER + 4 * mm,
+                          title=note.title, subject=note.caution, creator="shearcheck",
+                          author="", producer="shearcheck (ReportLab)")
+    frame = Frame(MARGIN, FOOTER + 4 * mm, lay.width, lay.page_h - HEADER - FOOTER - 4 * mm,
+                  leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
+    doc.addPageTemplates([PageTemplate(id="page", frames=[frame],
+                                       onPage=lambda c, _d: lay.header(c))])
+    count = [0]
+    doc.build(_story(note, lay), canvasmaker=_canvas_class(lay, count))
+    atomic_write(Path(path), buf.getvalue())
+    return count[0]

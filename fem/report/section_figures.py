@@ -17,6 +17,7 @@ from matplotlib.tri import Triangulation  # noqa: E402
 from mpl_toolkits.axes_grid1 import make_axes_locatable  # noqa: E402
 
 from fem.case.model import Case  # noqa: E402
+from fem.report.member_figures import force_text  # noqa: E402
 from fem.section.check import SectionRun  # noqa: E402
 from fem.section.level import SectionCheck  # noqa: E402
 
@@ -33,7 +34,7 @@ def _inside(check: SectionCheck, pts: np.ndarray) -> np.ndarray:
 
 
 def plot_section_stress(check: SectionCheck, length_unit: str, stress_unit: str,
-                        path: str | Path, arrows: int = 22) -> Path:
+                        path: str | Path, arrows: int = 22, force_unit: str = "") -> Path:
     """|tau| over the section (nodal averages, Gouraud shading, 'viridis') with arrows of
     the shear flow (length proportional to |tau|), the outline and the FE peak marked.
 
@@ -84,8 +85,10 @@ def plot_section_stress(check: SectionCheck, length_unit: str, stress_unit: str,
     ax.set_xlabel(f"x [{length_unit}]")
     ax.set_ylabel(f"y [{length_unit}]")
     vx, vy = check.V_solved
-    ax.set_title(f"{check.shape}: |τ| for V = ({vx:.4g}, {vy:.4g}); arrows: shear flow\n"
-                 f"red circle: FE peak {check.tau_max_fe:.4g} {stress_unit}", fontsize=10)
+    ax.set_title(f"{check.shape}: |τ| [{stress_unit}] under V = (Vx, Vy) = "
+                 f"({force_text(vx, force_unit)}, {force_text(vy, force_unit)}); arrows: "
+                 f"shear flow\nred circle: FE peak {check.tau_max_fe:.4g} {stress_unit}",
+                 fontsize=10)
     extend = "max" if check.tau_max_fe > top * (1 + 1e-9) else "neither"
     cax = make_axes_locatable(ax).append_axes("right", size="4%", pad=0.12)
     fig.colorbar(pc, cax=cax, label=f"|τ| [{stress_unit}]", extend=extend)
@@ -128,7 +131,8 @@ def _save(fig: plt.Figure, path: str | Path) -> Path:
 def section_shear_figure(case: Case, run: SectionRun, path: Path) -> Path:
     """|tau| over the section on the finest mesh, to `path`."""
     u = case.units
-    return plot_section_stress(run.finest, u.length, u.stress, Path(path))
+    return plot_section_stress(run.finest, u.length, u.stress, Path(path),
+                               force_unit=u.force)
 
 
 def section_profile_figure(case: Case, run: SectionRun, path: Path) -> Path:

@@ -6,7 +6,9 @@ per figure chosen by `TOLERANCE_RULE`. ``shearcheck regress`` runs the cases in 
 pool (one fresh interpreter, hence one gmsh session, per worker), prints one row per figure
 and reports a drift when any figure moves beyond its tolerance, the verdict changes, a
 figure appears or disappears, or a case fails to run. ``--update`` rewrites the baselines
-(only then), printing what changed.
+(only then), and only where a figure moved by more than round-off (`ROUND_OFF`): a figure
+that did not keep its stored value and tolerance, a baseline none of whose figures moved
+is not rewritten at all, and the table names every figure that moved.
 """
 
 from __future__ import annotations
@@ -28,12 +30,13 @@ from fem.study.pool import POINT_LOCK, process_pool, progress_bar
 __all__ = [
     "Row", "SuiteReport", "figures_of", "tolerances", "compare", "run_suite", "case_paths",
     "format_table", "baseline_path", "TOLERANCE_RULE", "REL_FLOOR", "REL_CAP", "PERTURB",
-    "STRESS_FLOOR",
+    "STRESS_FLOOR", "ROUND_OFF", "merge_baseline",
 ]
 
 REL_FLOOR = 0.005   # the convergence module's SETTLED: below it, changes are sampling noise
 REL_CAP = 0.25
 PERTURB = 0.9       # the second mesh of the tolerance rule: element size times this
+ROUND_OFF = 1e-9    # relative change below which a figure has not moved (floating-point noise)
 STRESS_FLOOR = 0.01  # beam stresses are compared relative to at least this x peak von Mises
 TOLERANCE_RULE = (
     "Relative tolerance per figure = 2 x its relative change when the case is re-run with "
@@ -118,6 +121,38 @@ class Row:
         return self.status in ("ok", "updated", "created")
 
 
+def _moved(b: dict[str, Any] | None, n: dict[str, Any] | None) -> bool:
+    """Whether a figure moved by more than round-off between a baseline entry and now."""
+    if b is None or n is None:
+        return b is not n
+    bv, nv = b["value"], n["value"]
+    d = _rel(bv, nv, b.get("scale", 0.0))
+    if d is None or isinstance(bv, bool) or isinstance(nv, bool):
+        return bv != nv
+    return d > ROUND_OFF
+
+
+def merge_baseline(base: dict[str, Any] | None, fig: dict[str, dict], tol: dict[str, dict],
+                   settings: dict[str, Any]) -> tuple[dict[str, dict] | None, list[str]]:
+    """The figures to store and the names of those that moved by more than `ROUND_OFF`.
+
+    A figure that has not moved keeps its stored entry (value and tolerance); a moved, new
+    or gone one takes `tol`'s entry (or leaves). Returns (None, []) when nothing moved and
+    the settings are those the baseline was made with: the file stays as it is.
+    """
+    old = (base or {}).get("figures")
+    same_settings = base is not None and all(
+        base.get("made_with", {}).get(k) == settings.get(k) for k in ("levels", "size", "order"))
+    if old is None or not same_settings:
+        return tol, list(fig)
+    names = [n for n in list(old) + [n for n in fig if n not in old]
+             if _moved(old.get(n), fig.get(n))]
+    if not names:
+        return None, []
+    merged = {n: (tol[n] if n in names else old[n]) for n in fig}
+    return merged, names
+
+
 def compare(case: str, base: dict[str, Any] | None, fig: dict[str, dict],
             settings: dict[str, Any]) -> list[Row]:
     """Rows comparing figures now against a baseline file's content."""
@@ -191,6 +226,7 @@ class SuiteReport:
     seconds: dict[str, float] = field(default_factory=dict)
     wall: float = 0.0
     updated: list[Path] = field(default_factory=list)
+    kept: list[Path] = field(default_factory=list)     # --update: nothing moved, not rewritten
 
     @property
     def holds(self) -> bool:
@@ -258,11 +294,19 @@ def run_suite(folder: str | Path = "cases", only: list[str] | None = None,
             rep.rows.append(Row(name, "run (size x 0.9)", None, None, None,
                                 f"error: {pert['error']}"))
             continue
-        rows = compare(name, bases[str(p)], res["figures"], res["settings"])
+        base = bases[str(p)]
+        figures, moved = merge_baseline(base, res["figures"],
+                                        tolerances(res["figures"], pert["figures"]),
+                                        res["settings"])
+        if figures is None:
+            rep.kept.append(baseline_path(p))
+            continue
+        rows = compare(name, base, res["figures"], res["settings"])
         rep.rows += [Row(r.case, r.figure, r.baseline, r.now, r.change,
                          "created" if r.status == "missing" else "updated")
-                     for r in rows if not r.holds]
-        _write_baseline(p, res, tolerances(res["figures"], pert["figures"]))
+                     for r in rows if r.status == "missing" or r.figure in moved
+                     or r.figure.startswith("settings ")]
+        _write_baseline(p, res, figures)
         rep.updated.append(baseline_path(p))
     rep.wall = time.perf_counter() - t0
     return rep
@@ -307,11 +351,15 @@ def format_table(rep: SuiteReport, all_rows: bool = True) -> str:
     w = [max(len(c[i]) for c in cells) for i in range(5)]
     lines = ["  ".join(c[i].ljust(w[i]) for i in range(5)) + "  " + c[5] for c in cells]
     cases = sorted({r.case for r in rep.rows})
-    if rep.updated and rep.holds:
+    if (rep.updated or rep.kept) and rep.holds:
         made = sum(r.status == "created" for r in rep.rows)
         changed = sum(r.status == "updated" for r in rep.rows)
-        lines.append(f"wrote {len(rep.updated)} baseline(s) ({made} new) in {rep.wall:.1f} s; "
-                     f"{changed} figure(s) changed")
+        names = ", ".join(p.name.removesuffix(".baseline.json") for p in rep.updated)
+        lines.append(f"wrote {len(rep.updated)} baseline(s) ({made} new)"
+                     + (f": {names}" if names else "")
+                     + f"; {changed} figure(s) moved by more than round-off; "
+                     f"{len(rep.kept)} baseline(s) unchanged, not rewritten "
+                     f"({rep.wall:.1f} s)")
     elif rep.holds:
         lines.append(f"all {len(rep.rows)} figures of {len(cases)} case(s) hold "
                      f"({rep.wall:.1f} s)")
