@@ -26,9 +26,11 @@ inside the functions that need them).
 from __future__ import annotations
 
 import os
+import sys
 import time
 from collections.abc import Callable
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
 import scipy.sparse as sp
@@ -97,8 +99,26 @@ class Factor:
             pass
 
 
+def _point_to_mkl() -> None:
+    """Tell pypardiso where the mkl wheel put libmkl_rt (its documented PYPARDISO_MKL_RT).
+
+    Without it, every solver object pypardiso makes (one at its import, one per
+    factorisation) falls back to a recursive glob of the whole environment when
+    ctypes' find_library misses the wheel's library: about a second each, measured in the
+    demo's profile.
+    """
+    if os.environ.get("PYPARDISO_MKL_RT"):
+        return
+    for pattern in ("lib/libmkl_rt.so*", "lib/libmkl_rt*.dylib", "Library/bin/mkl_rt*.dll"):
+        found = sorted(Path(sys.prefix).glob(pattern), key=lambda p: len(p.name))
+        if found:
+            os.environ["PYPARDISO_MKL_RT"] = str(found[0])
+            return
+
+
 def _pardiso_module():
     """pypardiso's wrapper module, or None if it (or MKL) cannot be loaded here."""
+    _point_to_mkl()
     try:
         from pypardiso import pardiso_wrapper
     except (ImportError, OSError):
