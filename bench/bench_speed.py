@@ -1,28 +1,33 @@
-"""Speed of the beam chain: our assembly and solve against scikit-fem's generic route.
+"""Speed of the beam chain against bare scikit-fem on the same meshes, one command.
 
 Run from the repository root (opt-in; not part of the test suite):
 
-    python bench/bench_speed.py            # everything, about 10 minutes on 2 cores
-    python bench/bench_speed.py --quick    # about a minute: no 400k / 1M runs
+    python bench/bench_speed.py            # ~25k, 110k, 400k dofs and the demo (~10 min)
+    python bench/bench_speed.py --quick    # ~25k and 110k dofs and the demo (~2 min)
+    python bench/bench_speed.py --full     # adds 1M dofs (one repeat), the forced solver
+                                           # runs and the adaptive study (~30 min)
 
 It prints, all measured in this run:
 
-1. the same ~110k-dof P2 plane-stress mesh (the demo bracket, curved hole) solved by the
-   generic route - `linear_elasticity` with the plane-stress lambda, `asm`, `condense`,
-   `skfem.solve` (SciPy's default `spsolve`) - and by `fem.member.solve.solve_member`; wall and CPU
-   time of assembly + solve, their ratio, and how far the two displacement fields differ;
-2. how assembly + solve and the whole level (mesh, solve, recovery) grow from 10k to 1M
-   dofs, each size in a fresh child process with its peak memory (VmHWM, see
-   `peak_memory_gib`), and the exponent of a log-log fit of time against dofs;
-3. (full run) the direct and the AMG solve forced at 400k and 1M dofs, to show the choice
-   of `fem.member.solve.DIRECT_LIMIT`;
-4. the wall time of `python -m fem.cli demo` and its phases from results.json;
-5. (full run) the dofs that adaptive refinement (`fem.member.adapt`) needs for the GCI of the peak
-   von Mises stress that the case's own levels reach, on a plate with a hole and a
+1. the table: for each size, one fresh process meshes the demo bracket (P2, curved hole)
+   and runs, interleaved, three times each (one at 1M): the project's chain - `mesh_member`,
+   the assembly and solve of `fem.member.solve.solve_member` (split by its own timers), and
+   `recover` - and the bare scikit-fem route on the same mesh - `linear_elasticity` with the
+   plane-stress lambda, `asm`, `solve(*condense(K, f, D=...))` with SciPy's default
+   `spsolve`, and stresses projected on P1DG (`Basis.project`). Medians, in microseconds per
+   dof, with the project's ratio to bare for assemble, solve, post and assemble + solve, the
+   solver the project used, the process's peak memory after the project's runs (VmHWM, see
+   `peak_memory_gib`) and how far the two displacement fields differ;
+2. the wall time of `python -m fem.cli demo` (three levels and the full note) and its
+   phases from results.json;
+3. (--full) the direct and the AMG-CG solve forced at 400k and 1M dofs, the evidence for the
+   memory switch in `fem.linear_solver.solve_spd`;
+4. (--full) the dofs that adaptive refinement (`fem.member.adapt`) needs for the GCI of the
+   peak von Mises stress that the case's own levels reach, on a plate with a hole and a
    filleted cope.
 
-The machine is shared by whatever else runs on it, so the routes are interleaved and the
-fastest of the repeats counts; the CPU-time ratio is the steadier figure under load.
+The machine is shared by whatever else runs on it: the two routes are interleaved in one
+process and medians count; the load average is printed at start and end.
 """
 
 from __future__ import annotations
@@ -55,15 +60,27 @@ def size_for(dofs: float) -> float:
     return math.sqrt(DOFS_AT_SIZE_1 / dofs)
 
 
-def generic_route(mm, lam: float, mu: float, f: np.ndarray, fixed: np.ndarray) -> np.ndarray:
-    """scikit-fem defaults: generic weak form, asm, condense, solve (spsolve, COLAMD)."""
-    from skfem import Basis, ElementTriP2, ElementVector, asm, condense, solve
+def bare_route(mm, lam: float, mu: float, f: np.ndarray, fixed: np.ndarray) -> dict:
+    """scikit-fem defaults on the project's mesh: generic weak form, asm, condense, solve
+    (spsolve, COLAMD), stresses projected on P1DG. Seconds per phase and the field."""
+    from skfem import Basis, ElementTriP1DG, ElementTriP2, ElementVector, asm, condense, solve
+    from skfem.helpers import sym_grad
     from skfem.models.elasticity import linear_elasticity
 
     t = float(mm.thickness[0])
+    t0, c0 = time.perf_counter(), time.process_time()
     basis = Basis(mm.mesh, ElementVector(ElementTriP2()))
     K = asm(linear_elasticity(lam * t, mu * t), basis)
-    return solve(*condense(K, f, D=fixed))
+    t1 = time.perf_counter()
+    u = solve(*condense(K, f, D=fixed))
+    t2, c2 = time.perf_counter(), time.process_time()
+    eps = sym_grad(basis.interpolate(u))
+    dg = basis.with_element(ElementTriP1DG())
+    for i, j in ((0, 0), (1, 1), (0, 1)):
+        sig = 2.0 * mu * eps[i, j] + (lam * (eps[0, 0] + eps[1, 1]) if i == j else 0.0)
+        dg.project(sig)
+    t3 = time.perf_counter()
+    return {"assemble": t1 - t0, "solve": t2 - t1, "post": t3 - t2, "cpu_as": c2 - c0, "u": u}
 
 
 def timed(fn, *args):
@@ -72,26 +89,39 @@ def timed(fn, *args):
     return out, time.perf_counter() - w, time.process_time() - c
 
 
-def compare_routes(size: float, repeats: int) -> dict:
-    """Part 1: both routes on one mesh, interleaved; fastest of `repeats` each."""
+def ours_route(case, size: float) -> tuple[dict, object]:
+    """The project's chain at `size`: mesh, assemble + solve (own timers), recovery."""
+    from fem.member.recovery import recover
     from fem.member.solve import solve_member
 
-    case = load_case(DEMO)
     mm = mesh_member(case, size)
-    if not np.allclose(mm.thickness, mm.thickness[0]):
-        raise SystemExit("the comparison needs one thickness (the generic form has one)")
-    ours = {"wall": math.inf, "cpu": math.inf}
-    generic = {"wall": math.inf, "cpu": math.inf}
-    for _ in range(repeats):
-        sol, w, c = timed(solve_member, case, mm)
-        ours = {"wall": min(ours["wall"], w), "cpu": min(ours["cpu"], c)}
-        u, w, c = timed(generic_route, mm, sol.lam, sol.mu, sol.f, sol.fixed)
-        generic = {"wall": min(generic["wall"], w), "cpu": min(generic["cpu"], c)}
-    dofs = sol.basis.N
-    return {"dofs": dofs, "ours": ours, "generic": generic, "solver": sol.solver,
-            "difference": float(np.abs(u - sol.u).max() / np.abs(sol.u).max()),
-            "ratio_wall": ours["wall"] / generic["wall"],
-            "ratio_cpu": ours["cpu"] / generic["cpu"]}
+    sol, _, cpu_as = timed(solve_member, case, mm)
+    t0 = time.perf_counter()
+    recover(sol, mm)
+    post = time.perf_counter() - t0
+    return {"mesh": mm.seconds, "assemble": sol.seconds_assemble, "solve": sol.seconds_solve,
+            "post": post, "cpu_as": cpu_as}, (mm, sol)
+
+
+def table_child(size: float, repeats: int) -> dict:
+    """Part 1 in this (fresh) process: both routes on one mesh, interleaved, medians."""
+    case = load_case(DEMO)
+    ours, bare = [], []
+    for k in range(repeats):
+        o, (mm, sol) = ours_route(case, size)
+        ours.append(o)
+        if k == 0:
+            peak = peak_memory_gib()    # before the bare route's larger factor
+        bare.append(bare_route(mm, sol.lam, sol.mu, sol.f, sol.fixed))
+    diff = float(np.abs(bare[-1]["u"] - sol.u).max() / np.abs(sol.u).max())
+
+    def median(rows: list[dict]) -> dict:
+        keys = ("mesh", "assemble", "solve", "post", "cpu_as")
+        return {k: float(np.median([r[k] for r in rows])) for k in keys if k in rows[0]}
+
+    return {"dofs": int(sol.basis.N), "ours": median(ours), "bare": median(bare),
+            "solver": sol.solver, "iterations": sol.iterations, "peak_gib": peak,
+            "difference": diff, "repeats": repeats}
 
 
 def peak_memory_gib() -> float:
@@ -113,7 +143,7 @@ def child(size: float, solver: str) -> dict:
     from fem.member.recovery import recover
 
     if solver != "auto":
-        fs.DIRECT_LIMIT = 0 if solver == "amg" else 10**12
+        fs.SOLVE_METHOD = "iterative" if solver == "amg" else "direct"
     case = load_case(DEMO)
     mm, _, cpu_mesh = timed(mesh_member, case, size)
     sol, _, cpu_solve = timed(fs.solve_member, case, mm)
@@ -125,15 +155,12 @@ def child(size: float, solver: str) -> dict:
             "peak_gib": peak_memory_gib()}
 
 
-def run_child(size: float, solver: str = "auto") -> dict:
-    out = subprocess.run([sys.executable, __file__, "--child", str(size), "--solver", solver],
-                         capture_output=True, text=True, check=True, cwd=ROOT)
+def run_child(size: float, solver: str = "auto", repeats: int = 0) -> dict:
+    """`child` (or `table_child` with repeats > 0) in a fresh process."""
+    extra = ["--repeats", str(repeats)] if repeats else []
+    out = subprocess.run([sys.executable, __file__, "--child", str(size), "--solver", solver,
+                          *extra], capture_output=True, text=True, check=True, cwd=ROOT)
     return json.loads(out.stdout.strip().splitlines()[-1])
-
-
-def exponent(dofs: list[int], seconds: list[float]) -> float:
-    """Slope of log(time) against log(dofs), least squares."""
-    return float(np.polyfit(np.log(dofs), np.log(seconds), 1)[0])
 
 
 def adaptive_vs_uniform(name: str, growths: tuple[float, ...] = (2.0, 1.7)) -> list[str]:
@@ -186,61 +213,70 @@ def demo_time() -> dict:
     return {"wall": wall, **timings}
 
 
+def print_table(rows: list[dict]) -> None:
+    us = 1e6
+    print("\n1. the project against bare scikit-fem on the same mesh (demo bracket, P2, "
+          "curved);\n   medians, microseconds per dof; ratio = project / bare")
+    print("        dofs  rep |  mesh | assem  solve   post | bare: assem  solve   post | "
+          "ratio: assem  solve   post  as+so [cpu] | solver     peak GiB  |du|/|u|")
+    for x in rows:
+        o, b, n = x["ours"], x["bare"], x["dofs"]
+        r = {k: o[k] / b[k] for k in ("assemble", "solve", "post")}
+        r_as = (o["assemble"] + o["solve"]) / (b["assemble"] + b["solve"])
+        r_cpu = o["cpu_as"] / b["cpu_as"]
+        its = f"({x['iterations']})" if x["iterations"] else ""
+        print(f"   {n:9,d}  {x['repeats']:3d} | {us * o['mesh'] / n:5.1f} | "
+              f"{us * o['assemble'] / n:5.1f} {us * o['solve'] / n:6.1f} "
+              f"{us * o['post'] / n:6.1f} |       {us * b['assemble'] / n:5.1f} "
+              f"{us * b['solve'] / n:6.1f} {us * b['post'] / n:6.1f} |        "
+              f"{r['assemble']:5.3f}  {r['solve']:5.3f}  {r['post']:5.3f}  {r_as:5.3f} "
+              f"[{r_cpu:5.3f}] | "
+              f"{x['solver'] + its:10s} {x['peak_gib']:6.2f}  {x['difference']:8.1e}")
+
+
 def main(argv: list[str] | None = None) -> int:
     p = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    p.add_argument("--quick", action="store_true", help="about a minute: sizes up to ~100k")
+    mode = p.add_mutually_exclusive_group()
+    mode.add_argument("--quick", action="store_true", help="~25k and 110k dofs and the demo")
+    mode.add_argument("--full", action="store_true",
+                      help="adds 1M dofs, forced solvers and the adaptive study")
     p.add_argument("--child", type=float, default=None, help=argparse.SUPPRESS)
     p.add_argument("--solver", default="auto", help=argparse.SUPPRESS)
+    p.add_argument("--repeats", type=int, default=0, help=argparse.SUPPRESS)
     args = p.parse_args(argv)
     if args.child is not None:
-        print(json.dumps(child(args.child, args.solver)))
+        out = (table_child(args.child, args.repeats) if args.repeats
+               else child(args.child, args.solver))
+        print(json.dumps(out))
         return 0
 
     print(f"load average at start: {os.getloadavg()[0]:.1f} on {os.cpu_count()} cores")
-    r = compare_routes(size_for(110_000), repeats=2 if args.quick else 3)
-    print(f"\n1. same mesh, {r['dofs']:,} dofs (P2 plane stress, curved), assembly + solve")
-    for name in ("generic", "ours"):
-        w, c = r[name]["wall"], r[name]["cpu"]
-        print(f"   {name:8s} wall {w:6.2f} s  cpu {c:6.2f} s  "
-              f"({1e6 * w / r['dofs']:.1f} us/dof wall)")
-    print(f"   ratio ours/generic: wall {r['ratio_wall']:.3f}, cpu {r['ratio_cpu']:.3f} "
-          f"(solver {r['solver']}; displacements differ by {r['difference']:.1e} relative)")
-
-    targets = [10e3, 30e3, 100e3] if args.quick else [10e3, 30e3, 100e3, 400e3, 1e6]
-    rows = [run_child(size_for(n)) for n in targets]
-    print("\n2. scaling (demo bracket, one level per fresh process); wall s, [cpu s]")
-    print("       dofs   mesh  assem  solve   post  [asm+sol]  solver(its)  peak GiB")
-    for x in rows:
-        its = f"({x['iterations']})" if x["solver"] == "amg" else ""
-        print(f"   {x['dofs']:8,d} {x['mesh']:6.2f} {x['assemble']:6.2f} {x['solve']:6.2f} "
-              f"{x['post']:6.2f}  [{x['cpu_solve']:7.2f}]  {x['solver']:6s}{its:5s}  "
-              f"{x['peak_gib']:8.2f}")
-    n = [x["dofs"] for x in rows]
-    a_s = [x["assemble"] + x["solve"] for x in rows]
-    total = [x["mesh"] + x["assemble"] + x["solve"] + x["post"] for x in rows]
-    cpu_as = [x["cpu_solve"] for x in rows]
-    cpu_total = [x["cpu_mesh"] + x["cpu_solve"] + x["cpu_post"] for x in rows]
-    print(f"   exponent k of time ~ dofs^k: assembly + solve {exponent(n, a_s):.2f} wall, "
-          f"{exponent(n, cpu_as):.2f} cpu; whole level {exponent(n, total):.2f} wall, "
-          f"{exponent(n, cpu_total):.2f} cpu")
-
+    targets = [(25e3, 3), (110e3, 3)]
     if not args.quick:
-        print("\n3. solver choice (forced), DIRECT_LIMIT from fem.member.solve")
+        targets.append((400e3, 3))
+    if args.full:
+        targets.append((1e6, 1))        # bare spsolve alone is minutes here: one repeat
+    rows = []
+    for n, reps in targets:
+        rows.append(run_child(size_for(n), repeats=reps))
+        print(f"   ... {rows[-1]['dofs']:,} dofs done", flush=True)
+    print_table(rows)
+
+    d = demo_time()
+    print(f"\n2. demo (three levels and the full note): {d['wall']:.2f} s wall; phases: mesh "
+          f"{d['mesh']:.2f}, assemble {d['assemble']:.2f}, solve {d['solve']:.2f}, "
+          f"post {d['post']:.2f} s (the rest is start-up and writing the report)")
+
+    if args.full:
+        print("\n3. solver forced (fem.member.solve.SOLVE_METHOD), one fresh process each")
         for target in (400e3, 1e6):
             for solver in ("direct", "amg"):
                 x = run_child(size_for(target), solver)
                 print(f"   {x['dofs']:9,d} dofs {solver:6s} solve {x['solve']:6.2f} s wall, "
                       f"assembly + solve cpu {x['cpu_solve']:6.2f} s, "
-                      f"peak {x['peak_gib']:.2f} GiB"
+                      f"peak {x['peak_gib']:.2f} GiB, solver {x['solver']}"
                       + (f", {x['iterations']} CG iterations" if solver == "amg" else ""))
-
-    d = demo_time()
-    print(f"\n4. demo (three levels and the report): {d['wall']:.2f} s wall; phases: mesh "
-          f"{d['mesh']:.2f}, assemble {d['assemble']:.2f}, solve {d['solve']:.2f}, "
-          f"post {d['post']:.2f} s (the rest is start-up and writing the report)")
-
-    if not args.quick:
-        print("\n5. adaptive refinement (fem.member.adapt) against the case's own levels")
+        print("\n4. adaptive refinement (fem.member.adapt) against the case's own levels")
         for name in ("plate-hole-tension", "coped-beam-fillet"):
             print("\n".join(adaptive_vs_uniform(name)))
     print(f"load average at end: {os.getloadavg()[0]:.1f}")

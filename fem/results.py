@@ -36,8 +36,13 @@ class MeshInfo:
     size: float
     order: int
     curved: bool = False
-    solver: str = "direct"     # "direct" (SuperLU) or "amg" (AMG-preconditioned CG)
-    iterations: int = 0        # CG iterations of the finest level (0 for direct)
+    # the solver that produced the finest level's answer: "pardiso" (MKL), "superlu" or
+    # "amg-cg" (fem.linear_solver); iterations: its CG iterations (0 for a direct solve)
+    solver: str = "superlu"
+    iterations: int = 0
+    # every solver tried on the finest level, in order, the answer's last: {"solver",
+    # "outcome", "iterations", "residual", "seconds", "note"} (fem.linear_solver.Attempt)
+    solve_attempts: list[dict] = field(default_factory=list)
 
 
 @dataclass

@@ -259,10 +259,10 @@ def test_non_finite_solve_is_caught(monkeypatch):
     import fem.member.mesh
     import fem.member.solve
 
-    def nan_solver(A, b, method="direct", modes=None):
-        return np.full_like(b, np.nan), 0
+    def nan_solver(A, b, modes=None, method="auto"):
+        return np.full_like(b, np.nan), [fem.member.solve.Attempt("superlu", "answer")]
 
-    monkeypatch.setattr(fem.member.solve, "solve_linear", nan_solver)
+    monkeypatch.setattr(fem.member.solve, "solve_spd", nan_solver)
     case = parse_case(good(), "n.toml")
     with pytest.raises(SolveError, match="non-finite"):
         fem.member.solve.solve_member(case, fem.member.mesh.mesh_member(case))

@@ -4,8 +4,8 @@ back through others (issue: the house).
 Floors, lowest first (a module may import its own floor's modules and any lower floor):
 
 0. core: `fem.errors`, `fem.progress`, `fem.results`, `fem.convergence`, `fem.verdict`,
-   `fem.output_folder`, `fem.gmsh_session` (anything directly under `fem/` but the
-   entry points)
+   `fem.output_folder`, `fem.gmsh_session`, `fem.linear_solver` (anything directly under
+   `fem/` but the entry points)
 1. `fem.case`      the case file in
 2. `fem.member`, `fem.section`   the two kinds (neither imports the other)
 3. `fem.report`    figures, field files, the design note
@@ -139,6 +139,7 @@ def test_the_checker_catches_an_upward_import(tmp_path):
     assert floor_of("fem.report.note") > floor_of("fem.member.check")
     assert floor_of("fem.member.check")[0] == floor_of("fem.section.check")[0]
     assert floor_of("fem.results")[0] == 0 and floor_of("fem")[0] == PACKAGE_FLOOR
+    assert floor_of("fem.linear_solver")[0] == 0   # both kinds solve through it
 
 
 def test_the_installed_package_holds_every_sub_package():

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from collections.abc import Callable
-from dataclasses import dataclass, field
+from dataclasses import asdict, dataclass, field
 from typing import Any
 
 import numpy as np
@@ -333,7 +333,8 @@ def _result(case: Case, levels: list[Level], cuts: list[CutResult], peak: Peak,
         units={"length": L, "force": case.units.force, "stress": S},
         mesh=MeshInfo(nodes=int(mm.mesh.doflocs.shape[1]), elements=int(mm.mesh.nelements),
                       dofs=int(sol.basis.N), size=mm.size, order=mm.order, curved=mm.curved,
-                      solver=sol.solver, iterations=sol.iterations),
+                      solver=sol.solver, iterations=sol.iterations,
+                      solve_attempts=[asdict(a) for a in sol.attempts]),
         equilibrium=Equilibrium(applied=list(sol.applied), reactions=list(sol.reaction_total),
                                 relative_error=sol.equilibrium_error),
         cuts=cuts, peak=peak, convergence=conv, verdict=verdict, findings=findings,

@@ -6,11 +6,12 @@ strain the 3D lambda. The out-of-plane thickness enters the stiffness element by
 resultant equals the stated force to round-off.
 
 The stiffness is assembled from element matrices computed for all elements at once
-(`element_stiffness`), not through a generic weak form. Systems up to `DIRECT_LIMIT` free
-dofs are solved directly (SuperLU with the symmetric minimum-degree ordering), larger ones
-by conjugate gradients preconditioned with smoothed-aggregation AMG built on the three
-rigid-body modes (`solve_linear`); bench/bench_speed.py measures both against the generic
-route (FEM-NOTES has the solver table).
+(`element_stiffness`), not through a generic weak form. The condensed system is solved by
+`fem.linear_solver.solve_spd`: a direct factorisation (PARDISO when pypardiso is importable,
+else SuperLU in symmetric mode) when its estimated memory fits, else AMG-CG on the three
+rigid-body modes with the direct solve behind it; every attempt is kept in
+`Solution.attempts` (results.json `mesh.solve_attempts`). bench/bench_speed.py measures both
+against the generic route.
 """
 
 from __future__ import annotations
@@ -20,26 +21,23 @@ from dataclasses import dataclass
 
 import numpy as np
 import scipy.sparse as sp
-from scipy.sparse.linalg import splu
 from skfem import Basis, ElementTriP2, ElementVector, FacetBasis, LinearForm, asm
 from skfem.element import ElementTriP1
 
 from fem.case.model import Case, Load
 from fem.case.outline import Patch, check_mechanism
 from fem.errors import SolveError
+from fem.linear_solver import Attempt, cg_amg, factorize, solve_spd
 from fem.member.mesh import MemberMesh
 
 __all__ = ["Solution", "lame", "solve_member", "check_mechanism", "RESIDUAL_LIMIT",
-           "DIRECT_LIMIT", "element_stiffness", "assemble_stiffness", "rigid_body_modes",
+           "SOLVE_METHOD", "element_stiffness", "assemble_stiffness", "rigid_body_modes",
            "solve_linear"]
 
 RESIDUAL_LIMIT = 1e-6  # |K u - f| / |f| on the free dofs above this: the solve is not trusted
-# free dofs up to which the direct solve is used, above it AMG-CG. Measured on the demo
-# bracket (bench/bench_speed.py): at 400k dofs direct 12 s against AMG-CG 17 s CPU; at 1M
-# both about 48 s, but AMG-CG peaks at 2.8 GiB against 4.5 GiB
-DIRECT_LIMIT = 500_000
-CG_TOLERANCE = 1e-10  # relative residual at which conjugate gradients stop
-CG_MAXITER = 500      # measured 28-34 iterations from 100k to 1M dofs
+# "auto": direct while the estimated factor memory fits the memory available, else AMG-CG
+# (fem.linear_solver.solve_spd); "direct" / "iterative" force one (the benchmark does)
+SOLVE_METHOD = "auto"
 
 
 @dataclass
@@ -65,8 +63,17 @@ class Solution:
         return (rx, ry)
 
     load_scale: float = 1.0                 # sum of |F| over the loads
-    solver: str = "direct"                  # "direct" or "amg" (see solve_linear)
-    iterations: int = 0                     # CG iterations (0 for the direct solve)
+    attempts: tuple[Attempt, ...] = ()      # every solver tried, the answer's last
+
+    @property
+    def solver(self) -> str:
+        """The solver that produced u: "pardiso", "superlu" or "amg-cg"."""
+        return self.attempts[-1].solver if self.attempts else "superlu"
+
+    @property
+    def iterations(self) -> int:
+        """CG iterations of the answer (0 for a direct solve)."""
+        return self.attempts[-1].iterations if self.attempts else 0
 
     @property
     def equilibrium_error(self) -> float:
@@ -161,7 +168,7 @@ def rigid_body_modes(basis: Basis, dofs: np.ndarray) -> np.ndarray:
 
 def solve_linear(A: sp.csr_matrix, b: np.ndarray, method: str = "direct",
                  modes: np.ndarray | None = None) -> tuple[np.ndarray, int]:
-    """Solve the symmetric positive definite system A x = b.
+    """Solve the symmetric positive definite system A x = b by one named route.
 
     Parameters
     ----------
@@ -169,29 +176,25 @@ def solve_linear(A: sp.csr_matrix, b: np.ndarray, method: str = "direct",
         The condensed stiffness matrix.
     b : ndarray
         Right-hand side.
-    method : {"direct", "amg"}
-        "direct": SuperLU in symmetric mode with the minimum-degree ordering of A + A^T.
-        "amg": conjugate gradients preconditioned with smoothed aggregation (energy-
-        minimising prolongation) on the rigid-body modes; the default near-null space does
-        not converge (FEM-NOTES). Stops at a relative residual of CG_TOLERANCE.
+    method : {"direct", "pardiso", "superlu", "amg"}
+        "direct": the preferred direct solver (`fem.linear_solver.factorize`); "pardiso" or
+        "superlu" force one; "amg": `fem.linear_solver.cg_amg` (conjugate gradients with
+        smoothed-aggregation AMG on the rigid-body modes, true-residual and stagnation
+        stops).
     modes : ndarray, optional
         (n, 3) rigid-body modes (`rigid_body_modes`), required for "amg".
 
     Returns
     -------
-    (x, CG iterations); 0 iterations for the direct solve.
+    (x, CG iterations); 0 iterations for a direct solve.
     """
-    if method == "direct":
-        lu = splu(A.tocsc(), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True})
-        return lu.solve(b), 0
+    if method in ("direct", "pardiso", "superlu"):
+        with factorize(A, None if method == "direct" else method) as factor:
+            return factor.solve(b), 0
     if method != "amg" or modes is None:
         raise ValueError(f"unknown solver {method!r}, or AMG without rigid-body modes")
-    import pyamg
-
-    ml = pyamg.smoothed_aggregation_solver(A, B=modes, smooth="energy", symmetry="symmetric")
-    residuals: list[float] = []
-    x = ml.solve(b, tol=CG_TOLERANCE, accel="cg", maxiter=CG_MAXITER, residuals=residuals)
-    return x, max(len(residuals) - 1, 0)
+    res = cg_amg(A, b, modes)
+    return res.x, res.iterations
 
 
 def _load_vector(basis: Basis, mm: MemberMesh, load: Load, patch: Patch,
@@ -287,13 +290,9 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
     free = np.flatnonzero(is_free)  # not setdiff1d: numpy 2.4's integer unique is slow here
     u = np.zeros(basis.N)
     Kff = K[free][:, free]  # measured faster than masking the stored entries
-    used = "amg" if len(free) > DIRECT_LIMIT else "direct"
-    modes = rigid_body_modes(basis, free) if used == "amg" else None
     try:
-        u[free], iterations = solve_linear(Kff, f[free], used, modes)
-        if used == "amg" and not _relative_residual(Kff, u[free], f[free]) <= RESIDUAL_LIMIT:
-            used = "direct"  # CG did not reach the residual limit: solve directly
-            u[free], iterations = solve_linear(Kff, f[free], used)
+        u[free], attempts = solve_spd(Kff, f[free], lambda: rigid_body_modes(basis, free),
+                                      SOLVE_METHOD)
     except RuntimeError as exc:
         raise SolveError(f"the stiffness matrix is singular ({exc}); the supports probably "
                          "leave part of the member free to move") from None
@@ -321,4 +320,4 @@ def solve_member(case: Case, mm: MemberMesh) -> Solution:
                     applied=applied, lam=lam, mu=mu, seconds_assemble=t1 - t0,
                     seconds_solve=t2 - t1,
                     load_scale=sum(float(np.hypot(*ld.force)) for ld in case.loads),
-                    solver=used, iterations=iterations)
+                    attempts=tuple(attempts))

@@ -134,7 +134,7 @@ def _result(case: Case, levels: list[SectionCheck], sizes: list[float], study: _
         case=case.name, kind="section", title=case.title,
         units={"length": u.length, "force": u.force, "stress": u.stress},
         mesh=MeshInfo(nodes=m["nodes"], elements=m["elements"], dofs=m["dofs"],
-                      size=m["size"], order=m["order"]),
+                      size=m["size"], order=m["order"], solver=m["solver"]),
         verdict=verdict, findings=findings, timings=timings,
         convergence=ConvergenceResult(
             sizes=sizes, tau_max=[lv.tau_max_fe for lv in levels],

@@ -61,10 +61,10 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import scipy.sparse as sp
-from scipy.sparse.linalg import splu
 from scipy.spatial import cKDTree
 from skfem import Basis, BilinearForm, ElementTriP1, ElementTriP2, LinearForm
 
+from fem.linear_solver import factorize
 from fem.section.mesh import SectionMesh
 
 __all__ = ["SectionSolution", "solve_section"]
@@ -132,6 +132,8 @@ class SectionSolution:
         solution: the identity.
     residual
         Relative residual of the factorised saddle system.
+    solver
+        The direct solver that factorised it ("pardiso" or "superlu", `fem.linear_solver`).
     """
 
     mesh: SectionMesh
@@ -154,6 +156,7 @@ class SectionSolution:
     residual: float
     dofs: int
     timings: dict[str, float] = field(default_factory=dict)
+    solver: str = "superlu"
     _basis: Basis | None = field(default=None, repr=False)
     _vectors: dict[str, np.ndarray] = field(default_factory=dict, repr=False)
 
@@ -249,26 +252,27 @@ def _locate(m, pts: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return cand[rows, best], lam[rows, best]
 
 
-def _solve_neumann(K: sp.spmatrix, m: np.ndarray, F: np.ndarray
-                   ) -> tuple[np.ndarray, np.ndarray, float]:
+def _solve_neumann(K: sp.spmatrix, m: np.ndarray, F: np.ndarray, solver: str | None = None
+                   ) -> tuple[np.ndarray, np.ndarray, float, str]:
     """Solve the multiplier system [[K, m], [m^T, 0]] [U; lam] = [F; 0] for several columns.
 
     K is the pure-Neumann Laplacian (K 1 = 0), so the multiplier follows from the constant
     test function: lam = 1^T F / 1^T m.  The compatible system K U = F - m lam is solved
-    with one dof pinned (K minus that row and column is SPD; SuperLU, MMD ordering on
-    A^T + A, symmetric mode) and the constant is then shifted so that m^T U = 0.  This is
-    the saddle-point solution itself, without the dense multiplier row in the
-    factorisation (2-3x faster here at 30k-50k dofs; the two agree to 1e-12).  Returns U,
-    lam and the relative residual of the full saddle system.
+    with one dof pinned (K minus that row and column is SPD; one factorisation by
+    `fem.linear_solver.factorize` for all columns, `solver` forces one) and the constant is
+    then shifted so that m^T U = 0.  This is the saddle-point solution itself, without the
+    dense multiplier row in the factorisation (2-3x faster here at 30k-50k dofs; the two
+    agree to 1e-12).  Returns U, lam, the relative residual of the full saddle system and
+    the name of the direct solver used.
     """
     lam = F.sum(axis=0) / m.sum()
     G = F - np.outer(m, lam)
-    lu = splu(K[1:, 1:].tocsc(), permc_spec="MMD_AT_PLUS_A", options={"SymmetricMode": True})
     U = np.zeros_like(F)
-    U[1:] = lu.solve(G[1:])
+    with factorize(K[1:, 1:].tocsr(), solver) as factor:
+        U[1:] = factor.solve(G[1:])
     U -= (m @ U) / m.sum()
     res = np.vstack([K @ U + np.outer(m, lam) - F, (m @ U)[None, :]])
-    return U, lam, float(np.linalg.norm(res) / np.linalg.norm(F))
+    return U, lam, float(np.linalg.norm(res) / np.linalg.norm(F)), factor.name
 
 
 def solve_section(mesh: SectionMesh, nu: float) -> SectionSolution:
@@ -302,7 +306,7 @@ def solve_section(mesh: SectionMesh, nu: float) -> SectionSolution:
     m = _ones.assemble(basis)
     F = np.column_stack([f.assemble(basis) for f in _loads(c, nu)])
     t1 = time.perf_counter()
-    U, _, residual = _solve_neumann(K, m, F)
+    U, _, residual, solver = _solve_neumann(K, m, F)
     omega, phi_a, phi_b = U[:, 0], U[:, 1], U[:, 2]
     t2 = time.perf_counter()
 
@@ -349,6 +353,7 @@ def solve_section(mesh: SectionMesh, nu: float) -> SectionSolution:
         shear_coefficients=(float(1.0 / (A * flex[0, 0])), float(1.0 / (A * flex[1, 1]))),
         shear_flexibility=flex, corners=corners, tau_vx=tau_v(ab_vx), tau_vy=tau_v(ab_vy),
         tau_torsion=tau_t, resultant=resultant, residual=residual, dofs=int(basis.N),
+        solver=solver,
         timings={"assemble": t1 - t0, "solve": t2 - t1, "post": t3 - t2}, _basis=basis,
         _vectors={"omega": omega, "phi_a": phi_a, "phi_b": phi_b, "ab_vx": ab_vx,
                   "ab_vy": ab_vy},
