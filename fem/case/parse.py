@@ -21,6 +21,7 @@ from classical.units import (
     force_for_stress,
     stress_factor,
 )
+from fem.case.arcs import read_ring
 from fem.case.model import (
     DISTRIBUTIONS,
     EDGES,
@@ -47,7 +48,7 @@ from fem.case.model import (
     Zone,
 )
 from fem.case.outline import validate_geometry
-from fem.case.reader import Table, as_point, line_of
+from fem.case.reader import Table, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
 from fem.errors import CaseError
@@ -223,18 +224,15 @@ def _beam_geometry(t: Table) -> BeamGeometry:
     shape = t.text("shape", allowed=("rectangle", "polygon"))
     length = depth = 0.0
     points: tuple[tuple[float, float], ...] = ()
+    bulges: tuple[float, ...] = ()
     if shape == "rectangle":
         length = t.number("length", low=0.0, low_open=True)
         depth = t.number("depth", low=0.0, low_open=True)
     else:
-        raw = t.raw("points")
-        if not isinstance(raw, list) or len(raw) < 3:
-            raise t.error("points", "must be a list of at least three [x, y] points")
-        points = tuple(as_point(p, t.file, f"{t.key('points')}.{i}") for i, p in enumerate(raw))
-        for i in range(1, len(points)):
-            if points[i] == points[i - 1]:
-                raise t.error(f"points.{i}", f"{list(points[i])} repeats the point before it; "
-                                             "give each corner once")
+        ring = read_ring(t.raw("points"), t.file, t.key("points"))
+        points = tuple((x, y) for x, y, _ in ring)
+        bulges = tuple(b for _, _, b in ring) if any(b for _, _, b in ring) else ()
+    openings = _openings(t)
     holes = []
     for h in t.tables("holes"):
         holes.append(Hole(center=h.point("center"),
@@ -261,7 +259,17 @@ def _beam_geometry(t: Table) -> BeamGeometry:
         z.close()
     t.close()
     return BeamGeometry(shape=shape, length=length, depth=depth, points=points,
-                        holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones))
+                        holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones),
+                        bulges=bulges, openings=openings)
+
+
+def _openings(t: Table) -> tuple[tuple[tuple[float, float, float], ...], ...]:
+    """geometry.openings: holes of any outline, each a ring of [x, y(, bulge)] vertices."""
+    raw = t.raw("openings", [])
+    if not isinstance(raw, list):
+        raise t.error("openings", "must be a list of rings, each a list of [x, y] or "
+                                  "[x, y, bulge] vertices")
+    return tuple(read_ring(r, t.file, f"{t.key('openings')}.{j}") for j, r in enumerate(raw))
 
 
 def _placement(t: Table, allow_hole: bool) -> Placement:
@@ -338,14 +346,13 @@ def _section_geometry(t: Table) -> SectionGeometry:
 def _rings(t: Table, k: str) -> Any:
     raw = t.raw(k)
     if k == "points":
-        if not isinstance(raw, list) or len(raw) < 3:
-            raise t.error(k, "must be a list of at least three [x, y] points")
-        return [as_point(p, t.file, f"{t.key(k)}.{i}") for i, p in enumerate(raw)]
+        return _vertices(read_ring(raw, t.file, t.key(k)))
     if not isinstance(raw, list):
-        raise t.error(k, "must be a list of rings, each a list of [x, y] points")
-    rings = []
-    for j, ring in enumerate(raw):
-        if not isinstance(ring, list) or len(ring) < 3:
-            raise t.error(f"{k}.{j}", "must be a list of at least three [x, y] points")
-        rings.append([as_point(p, t.file, f"{t.key(k)}.{j}.{i}") for i, p in enumerate(ring)])
-    return rings
+        raise t.error(k, "must be a list of rings, each a list of [x, y] or [x, y, bulge] "
+                         "vertices")
+    return [_vertices(read_ring(r, t.file, f"{t.key(k)}.{j}")) for j, r in enumerate(raw)]
+
+
+def _vertices(ring: tuple[tuple[float, float, float], ...]) -> list[tuple[float, ...]]:
+    """Section vertices: (x, y) where straight, (x, y, bulge) where an arc starts."""
+    return [(x, y, b) if b else (x, y) for x, y, b in ring]

@@ -352,6 +352,6 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
                    "relative_error": rel},
         mesh=MeshInfo(smesh.nodes, smesh.elements, sol.dofs, float(size), order,
                       curved=order == 2 and any(r.circle is not None or bool(r.radii.any())
-                                                for r in geom.rings)),
+                                                or r.bulges is not None for r in geom.rings)),
         timings=timings, verdict=verdict, findings=tuple(findings), solution=sol,
     )
