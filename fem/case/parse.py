@@ -22,6 +22,7 @@ from classical.units import (
     stress_factor,
 )
 from fem.case.arcs import read_ring
+from fem.case.drawing import Drawing, read_drawing
 from fem.case.model import (
     DISTRIBUTIONS,
     EDGES,
@@ -110,7 +111,7 @@ def _parse(text: str, file: str) -> Case:
                                                "sections refine uniformly")
     check = _check(top.table("check", None), kind)
     if kind == "beam":
-        geometry = _beam_geometry(top.table("geometry"))
+        geometry = _beam_geometry(top.table("geometry"), units)
         supports = tuple(_support(t) for t in top.tables("supports"))
         loads = tuple(_load(t) for t in top.tables("loads"))
         if not supports:
@@ -121,7 +122,7 @@ def _parse(text: str, file: str) -> Case:
             raise top.error("loads", "every load is zero; give at least one non-zero force")
         shear = (0.0, 0.0)
     else:
-        geometry = _section_geometry(top.table("geometry"))
+        geometry = _section_geometry(top.table("geometry"), units)
         lt = top.table("loads")
         shear = _force(lt, "shear")
         lt.close()
@@ -220,20 +221,27 @@ def _check(t: Table | None, kind: str) -> Check:
     return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv)
 
 
-def _beam_geometry(t: Table) -> BeamGeometry:
-    shape = t.text("shape", allowed=("rectangle", "polygon"))
+def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
+    shape = t.text("shape", allowed=("rectangle", "polygon", "drawing"))
     length = depth = 0.0
     points: tuple[tuple[float, float], ...] = ()
     bulges: tuple[float, ...] = ()
+    source = ""
+    holes = []
+    openings = _openings(t)
     if shape == "rectangle":
         length = t.number("length", low=0.0, low_open=True)
         depth = t.number("depth", low=0.0, low_open=True)
     else:
-        ring = read_ring(t.raw("points"), t.file, t.key("points"))
+        if shape == "drawing":
+            d = _drawing(t, units)
+            ring, source = d.outline, d.source
+            holes = [Hole(center=(x, y), radius=r) for x, y, r in d.circles]
+            openings = d.openings + openings
+        else:
+            ring = read_ring(t.raw("points"), t.file, t.key("points"))
         points = tuple((x, y) for x, y, _ in ring)
         bulges = tuple(b for _, _, b in ring) if any(b for _, _, b in ring) else ()
-    openings = _openings(t)
-    holes = []
     for h in t.tables("holes"):
         holes.append(Hole(center=h.point("center"),
                           radius=h.number("radius", low=0.0, low_open=True)))
@@ -260,7 +268,15 @@ def _beam_geometry(t: Table) -> BeamGeometry:
     t.close()
     return BeamGeometry(shape=shape, length=length, depth=depth, points=points,
                         holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones),
-                        bulges=bulges, openings=openings)
+                        bulges=bulges, openings=openings, drawing=source)
+
+
+def _drawing(t: Table, units: Units) -> Drawing:
+    """geometry.file (relative to the case file's folder) and the optional layer."""
+    name = t.text("file")
+    layer = t.text("layer", None)
+    folder = Path(t.file).parent if t.file and not t.file.startswith("<") else Path(".")
+    return read_drawing(folder / name, name, layer, units.length, t.file)
 
 
 def _openings(t: Table) -> tuple[tuple[tuple[float, float, float], ...], ...]:
@@ -328,8 +344,15 @@ def _force(t: Table, key: str) -> tuple[float, float]:
     return f
 
 
-def _section_geometry(t: Table) -> SectionGeometry:
-    shape = t.text("shape", allowed=tuple(SECTION_SHAPES))
+def _section_geometry(t: Table, units: Units) -> SectionGeometry:
+    shape = t.text("shape", allowed=(*SECTION_SHAPES, "drawing"))
+    if shape == "drawing":   # a drawn section is a polygon of arcs and lines, with holes
+        d = _drawing(t, units)
+        t.close()
+        holes = [_vertices(o) for o in d.openings]
+        holes += [[(x + r, y, 1.0), (x - r, y, 1.0)] for x, y, r in d.circles]
+        return SectionGeometry(shape="polygon", params={"points": _vertices(d.outline),
+                                                        "holes": holes})
     required, optional = SECTION_SHAPES[shape]
     params: dict[str, Any] = {}
     for k in required + optional:
