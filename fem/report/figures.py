@@ -19,6 +19,9 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
         from fem.report.section_figures import write_section_figures
 
         paths = write_section_figures(res.case, res.run, folder)
+    from fem.report.model_figure import run_figure  # the model as `shearcheck show` draws it
+
+    paths.insert(0, run_figure(res, Path(folder)))
     from fem.report.convergence_figure import convergence_figure, has_study
 
     if has_study(res.result.convergence):
