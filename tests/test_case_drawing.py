@@ -278,3 +278,32 @@ def test_cli_exit_2_one_line(tmp_path, capsys):
     err = capsys.readouterr().err.strip()
     assert err.count("\n") == 0 and "geometry.file" in err and "b.dxf" in err
     assert not (tmp_path / "out").exists()
+
+
+def test_bundled_drawing_is_reproduced_by_its_script(tmp_path):
+    """cases/drawings/make_haunched_bracket.py writes the committed haunched-bracket.dxf:
+    the same bytes with the same ezdxf release, the same outline in any case; the haunch is
+    one arc of R = (350^2 + 180^2)/360 = 430.278 mm meeting the column face at 90 degrees
+    (no re-entrant corner)."""
+    import subprocess
+    import sys
+
+    from fem.case.arcs import ring_arcs
+    from fem.case.drawing import read_drawing
+    from fem.case.outline import domain_polygon, reentrant_corners
+
+    root = Path(__file__).resolve().parents[1]
+    committed = root / "cases" / "drawings" / "haunched-bracket.dxf"
+    made = tmp_path / "again.dxf"
+    subprocess.run([sys.executable, str(root / "cases" / "drawings" /
+                                        "make_haunched_bracket.py"), str(made)],
+                   check=True, capture_output=True)
+    if f"{ezdxf.__version__} @" in committed.read_text(encoding="utf-8"):
+        assert made.read_bytes() == committed.read_bytes()
+    a = read_drawing(committed, "c.dxf", "BRACKET", "mm", "c.toml")
+    b = read_drawing(made, "c.dxf", "BRACKET", "mm", "c.toml")
+    assert a == b
+    arcs = ring_arcs(a.outline)
+    assert len(arcs) == 1 and arcs[0].radius == pytest.approx(430.2778, abs=1e-4)
+    case = load_case(root / "cases" / "haunched-bracket.toml")
+    assert reentrant_corners(domain_polygon(case.beam)) == []

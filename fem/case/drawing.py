@@ -311,6 +311,13 @@ def _chains(pieces: list[_Piece], tol: float, unit: str) -> list[_Contour]:
     members: dict[int, list[int]] = {}
     for i, n in enumerate(node):
         members.setdefault(int(n), []).append(i)
+    # one point per joint: a line's or polyline's typed end rather than an arc's end, which
+    # the file gives by centre, radius and angles (cos 270 degrees is -1.8e-16, not 0)
+    at: dict[int, tuple[float, float]] = {}
+    for n, ids in members.items():
+        typed = [i for i in ids if pieces[i // 2].kind != "ARC"]
+        x, y = ends[(typed or ids)[0]]
+        at[n] = (float(x), float(y))
     for ids in members.values():
         if len(ids) == 1:
             _open_end(pieces, ends, node, ids[0], tol, unit)
@@ -331,7 +338,7 @@ def _chains(pieces: list[_Piece], tol: float, unit: str) -> list[_Contour]:
         while True:
             used[k] = True
             p = pieces[k]
-            a, b = (p.start, p.end) if forward else (p.end, p.start)
+            a = at[int(node[2 * k + (0 if forward else 1)])]
             ring.append((a[0], a[1], p.bulge if forward else -p.bulge))
             handles.append(p.handle)
             kinds.append(p.kind)

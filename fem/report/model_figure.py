@@ -76,7 +76,8 @@ def _n(v: float, digits: int = 4) -> str:
         return f"{v:g}"
     mag = math.floor(math.log10(abs(v)))
     if -3 <= mag < 7:
-        return f"{round(v, digits - 1 - mag):.{max(0, digits - 1 - mag)}f}"
+        text = f"{round(v, digits - 1 - mag):.{max(0, digits - 1 - mag)}f}"
+        return text.rstrip("0").rstrip(".") if "." in text else text
     return f"{v:.{digits - 1}e}"
 
 
@@ -119,7 +120,7 @@ def _figure(bounds: tuple[float, float, float, float]):
     fh = min(max(fw * h / w + 1.2, 3.2), 8.0)
     fig, ax = plt.subplots(figsize=(fw, fh), dpi=DPI)
     ax.set_aspect("equal")
-    pad = 0.14 * max(w, h)
+    pad = 0.2 * max(w, h)   # room for load arrows (0.145 x the size) and their labels
     ax.set_xlim(x0 - pad, x1 + pad)
     ax.set_ylim(y0 - pad, y1 + pad)
     ax.tick_params(labelsize=7)
