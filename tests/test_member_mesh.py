@@ -79,3 +79,18 @@ def test_true_arcs_in_a_polygon_outline_and_opening():
     on_arc = np.abs(r - 20.0) < 1e-3
     assert on_arc.sum() >= 6
     assert np.abs(r[on_arc] - 20.0).max() < 1e-9
+
+
+def test_size_guard_counts_the_refinement_along_arcs():
+    """The dof estimate (fem.case.sizing) includes the graded refinement along outline and
+    opening arcs: within 15 % of the real count for a bracket with a 20 mm fillet arc and a
+    slot with 5 mm half-circle ends (without it: 0.71 at size 8)."""
+    from test_case_arcs import case, l_bracket
+
+    slot = "[[[10.0, 150.0], [30.0, 150.0, 1.0], [30.0, 160.0], [10.0, 160.0, 1.0]]]"
+    c = case(l_bracket(), f"openings = {slot}")
+    for size in (8.0, 4.0):
+        mm = mesh_member(c, size)
+        f = mm.finder_mesh
+        real = 2 * (f.p.shape[1] + f.facets.shape[1])
+        assert 0.85 < estimate_dofs(c, size) / real < 1.15

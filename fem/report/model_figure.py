@@ -35,6 +35,7 @@ from matplotlib.path import Path as MplPath  # noqa: E402
 from shapely.geometry import LineString, Point, Polygon, box  # noqa: E402
 
 from classical.sections import polygon_properties  # noqa: E402
+from fem.case.arcs import ring_polygon  # noqa: E402
 from fem.case.model import Case  # noqa: E402
 from fem.case.outline import curved_edges, domain_polygon, reentrant_corners  # noqa: E402
 from fem.case.sizing import estimate_dofs, level_size  # noqa: E402
@@ -202,6 +203,9 @@ def _member(case: Case, folder: Path, mm: Any = None) -> Preview:
     for k, c in enumerate(g.cutouts):
         ax.text(c.corner[0] + c.size[0] / 2, c.corner[1] + c.size[1] / 2, f"cut-out {k}",
                 fontsize=7, ha="center", va="center", zorder=8, clip_on=True)
+    for k, o in enumerate(g.openings):
+        c = ring_polygon(o).representative_point()
+        ax.text(c.x, c.y, f"opening {k}", fontsize=7, ha="center", va="center", zorder=8)
     x0, y0, x1, y1 = dom.bounds
     for x in cuts:   # over the material only: a cut never bridges a hole or a gap
         for piece in shapely.get_parts(dom.intersection(LineString([(x, y0 - 1), (x, y1 + 1)]))):
