@@ -307,3 +307,17 @@ def test_bundled_drawing_is_reproduced_by_its_script(tmp_path):
     assert len(arcs) == 1 and arcs[0].radius == pytest.approx(430.2778, abs=1e-4)
     case = load_case(root / "cases" / "haunched-bracket.toml")
     assert reentrant_corners(domain_polygon(case.beam)) == []
+
+
+def test_tiny_arc_named_by_its_entity(tmp_path):
+    """An ARC of radius 0.001 mm closing a 40 mm outline is refused against the drawing's
+    entities (MIN_ARC_RADIUS x the extent), not against a typed key."""
+    doc, msp = new_doc()
+    msp.add_line((0, 0), (40, 0))
+    msp.add_line((40, 0), (40, 40))
+    msp.add_line((40, 40), (0.002, 40))
+    msp.add_arc((0.001, 40), 0.001, 0, 180)     # (0.002, 40) -> (0, 40)
+    msp.add_line((0, 40), (0, 0))
+    doc.saveas(tmp_path / "b.dxf")
+    refused(tmp_path, r"geometry\.file: b\.dxf: the contour of LINE .*radius.*too small",
+            layer=None)

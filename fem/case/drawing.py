@@ -30,7 +30,8 @@ import numpy as np
 from shapely.geometry import Polygon
 
 from classical.arcs import STRAIGHT_BULGE
-from fem.case.arcs import Vertex, ring_polygon
+from fem.case.arcs import Vertex, check_ring, ring_polygon
+from fem.case.outline import MIN_FEATURE
 from fem.errors import CaseError
 
 __all__ = ["Drawing", "read_drawing", "MAX_DRAWING_BYTES", "JOIN_TOL", "INSUNITS",
@@ -379,6 +380,15 @@ def _assemble(contours: list[_Contour], units: str | None, where: str) -> Drawin
         if not poly.is_valid or poly.area <= 0:
             raise _Refusal(f"the contour of {c.name()} crosses itself")
         polys.append(poly)
+    x0, y0, x1, y1 = polys[max(range(len(polys)), key=lambda k: polys[k].area)].bounds
+    extent = max(x1 - x0, y1 - y0)
+    for c in contours:   # the checks of typed rings, reported against the entities
+        if c.ring is not None:
+            try:
+                check_ring(c.ring, "", "ring", extent, MIN_FEATURE * extent)
+            except CaseError as exc:
+                raise _Refusal(f"the contour of {c.name()}: "
+                               f"{exc.message.replace('edges', 'its edges')}") from None
     order = sorted(range(len(contours)), key=lambda k: -polys[k].area)
     outer, opoly = contours[order[0]], polys[order[0]]
     circles, openings, inner = [], [], []
