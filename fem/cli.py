@@ -1,4 +1,4 @@
-"""Command line: `shearcheck run | demo | hand | regress | sweep`.
+"""Command line: `shearcheck run | demo | hand | show | regress | sweep`.
 
 Exit codes: 0 the check ran (any verdict), 2 bad input (one line on stderr, no traceback),
 1 internal error (short message; the traceback goes to `shearcheck-error.log` in the
@@ -39,8 +39,29 @@ def _parser() -> argparse.ArgumentParser:
     h.add_argument("--out", type=Path, default=None,
                    help="output folder (default: out/<case name>-hand)")
     h.add_argument("--quiet", action="store_true")
+    s = sub.add_parser("show", help="draw the model (outline, supports, loads, cuts, mesh) "
+                                    "without solving: model.png and a summary")
+    s.add_argument("case", type=Path)
+    s.add_argument("--out", type=Path, default=None, help="default: out/<case name>")
     _suite_parsers(sub)
     return p
+
+
+def _show(case_path: Path, out: Path | None) -> int:
+    """`shearcheck show`: mesh the first level and draw it; nothing is solved."""
+    from fem.report.model_figure import preview
+
+    case, out = _load(case_path, out)
+    try:
+        pv = preview(case, out)
+    except (CaseError, SolveError):
+        raise
+    except Exception:
+        _log_internal(out)
+        raise
+    print(pv.summary())
+    print(f"model: {out / pv.figure.name}")
+    return 0
 
 
 def _suite_parsers(sub) -> None:
@@ -190,6 +211,8 @@ def main(argv: list[str] | None = None) -> int:
                 return _run(p, args.out, not args.no_report, args.quiet)
         if args.command == "hand":
             return _hand(args.case, args.out, args.quiet)
+        if args.command == "show":
+            return _show(args.case, args.out)
         if args.command == "regress":
             return _regress(args)
         if args.command == "sweep":

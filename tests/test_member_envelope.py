@@ -140,7 +140,7 @@ def test_excluded_zones_are_honoured(stubby):
     assert all(env3.tau_fe[i] is None and env3.ratio[i] is None
                for i in np.flatnonzero(covered))
     assert env3.excluded == [[5.0, 115.0]]
-    # judged only JUDGED_REACH radii from the centre: x > 60 + 2 x 55 = 170
+    # FE peaks leave out JUDGED_REACH radii about the centre: x > 60 + 2 x 55 = 170
     assert env3.worst.x > 60.0 + JUDGED_REACH * 55.0
     assert all(a > 170.0 for a, b in env3.unsafe)
 

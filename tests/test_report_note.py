@@ -104,6 +104,7 @@ def test_output_folder_holds_every_file(run):
     res, out, files = run
     n = len(res.result.cuts)
     expected = {"results.json", "report.html", "report.pdf", "fields.vtu", "profiles.csv",
+                "model.png",
                 "shear-contour.png", "von-mises-contour.png", "convergence.png",
                 "ratio-along-member.png", "profiles.png", "mesh.png"}
     expected |= {f"profile-{k:02d}.png" for k in range(1, n + 1)}

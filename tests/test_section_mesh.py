@@ -185,3 +185,32 @@ def test_section_corner_angle_rule_185_is_not_a_corner_200_is():
     hard = section_shape("polygon", points=_dent(200.0))
     assert len(hard.sharp_reentrant_corners()) == 1
     assert np.degrees(hard.sharp_reentrant_angles()[0]) == pytest.approx(200.0, abs=1e-9)
+
+
+def test_arcs_of_one_circle_are_that_circle():
+    """A polygon ring of two half circles (bulge 1) is built as the circle itself, so a
+    hollow circle drawn from arcs meshes exactly as the tube shape (same nodes)."""
+    arcs = section_shape("polygon", points=[(50.0, 0.0, 1.0), (-50.0, 0.0, 1.0)],
+                         holes=[[(35.0, 0.0, 1.0), (-35.0, 0.0, 1.0)]])
+    assert arcs.outer.circle == pytest.approx((0.0, 0.0, 50.0))
+    assert arcs.holes[0].circle == pytest.approx((0.0, 0.0, 35.0))
+    a = mesh_section(arcs, size=5.0)
+    b = mesh_section(section_shape("tube", diameter=100.0, wall=15.0), size=5.0)
+    np.testing.assert_array_equal(a.mesh.doflocs, b.mesh.doflocs)
+
+
+def test_half_disc_from_a_bulge_true_arc_and_corners():
+    """A half disc r = 30 (a straight diameter and one bulge-1 arc, either orientation):
+    mesh area pi r^2 / 2 to 1e-6 and centroid 4r/(3 pi) above the diameter (Gere & Goodno,
+    7th ed., App. E, from memory); the diameter meets the arc at 90 degrees (convex), so no
+    re-entrant corner; the polygon route (faceted arc) agrees to 1e-4."""
+    for pts in ([(30.0, 0.0, 1.0), (-30.0, 0.0)], [(-30.0, 0.0, -1.0), (30.0, 0.0)]):
+        g = section_shape("polygon", points=pts)
+        assert g.sharp_reentrant_corners().shape == (0, 2)
+        np.testing.assert_allclose(np.degrees(g.outer.material_angles()), [90.0, 90.0])
+        A, cx, cy, *_ = _moments(mesh_section(g, size=3.0))
+        assert A == pytest.approx(math.pi * 450.0, rel=1e-6)
+        assert cy == pytest.approx(4 * 30 / (3 * math.pi), rel=1e-6)
+        hp = polygon_properties(g.outline)
+        assert hp.A == pytest.approx(A, rel=1e-4)
+        assert hp.cy == pytest.approx(cy, rel=1e-4)

@@ -178,6 +178,18 @@ class BeamGeometry:
     holes: tuple[Hole, ...] = ()
     cutouts: tuple[Cutout, ...] = ()
     zones: tuple[Zone, ...] = ()
+    # arcs (fem.case.arcs): bulges[k] for the edge from points[k] to the next (empty: all
+    # straight); openings: holes of any outline, rings of (x, y, bulge); drawing: the DXF
+    # file (and layer) the outline was read from, for the reports
+    bulges: tuple[float, ...] = ()
+    openings: tuple[tuple[tuple[float, float, float], ...], ...] = ()
+    drawing: str = ""
+
+    @property
+    def ring(self) -> tuple[tuple[float, float, float], ...]:
+        """The outline as vertices (x, y, bulge) (polygon and drawing shapes)."""
+        b = self.bulges or (0.0,) * len(self.points)
+        return tuple((x, y, bk) for (x, y), bk in zip(self.points, b, strict=True))
 
 
 @dataclass(frozen=True)

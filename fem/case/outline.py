@@ -18,6 +18,7 @@ import shapely
 from shapely.geometry import LineString, Point, Polygon, box
 from shapely.ops import unary_union
 
+from fem.case.arcs import Arc, check_ring, on_arc, ring_arcs, ring_polygon
 from fem.case.model import BeamGeometry, Case, Cutout, Placement
 from fem.errors import CaseError
 
@@ -25,6 +26,7 @@ __all__ = [
     "Patch", "Corner", "Strip", "outline_polygon", "domain_polygon", "cutout_polygon",
     "resolve_patch", "patches", "cut_strips", "reentrant_corners", "validate_geometry",
     "bounding_box", "check_mechanism", "ARC_SEGMENTS", "CORNER_ANGLE", "is_sharp_corner",
+    "curved_edges",
 ]
 
 ARC_SEGMENTS = 64  # polyline segments per quarter circle in the shapely model
@@ -111,7 +113,7 @@ def outline_polygon(g: BeamGeometry) -> Polygon:
     if g.shape == "rectangle":
         return box(0.0, 0.0, g.length, g.depth)
     # tolerance 0 drops only exactly collinear vertices: one edge per straight stretch
-    poly = Polygon(g.points)
+    poly = ring_polygon(g.ring) if g.bulges else Polygon(g.points)
     if poly.is_valid:
         with np.errstate(all="ignore"):  # denormal coordinates overflow GEOS' tolerance
             poly = shapely.simplify(poly, 0.0)
@@ -150,6 +152,7 @@ def domain_polygon(g: BeamGeometry) -> Polygon:
     outline = outline_polygon(g)
     removed = [Point(h.center).buffer(h.radius, quad_segs=ARC_SEGMENTS) for h in g.holes]
     removed += [cutout_polygon(c, outline) for c in g.cutouts]
+    removed += [ring_polygon(o) for o in g.openings]
     dom = outline.difference(unary_union(removed)) if removed else outline
     return dom
 
@@ -279,8 +282,11 @@ def resolve_patch(where: Placement, name: str, key: str, case: Case, dom: Polygo
 
 
 def _on_curve(p, g: BeamGeometry, tol: float) -> bool:
-    """Is `p` on a hole circle or a cut-out fillet arc (away from the arc's ends)?"""
+    """Is `p` on a hole circle, an arc of the outline or an opening, or a cut-out fillet
+    arc (away from the arc's ends)?"""
     near = 1e3 * tol
+    if on_arc(p, curved_edges(g), near):
+        return True
     for h in g.holes:
         if abs(math.dist(p, h.center) - h.radius) < near:
             return True
@@ -300,6 +306,14 @@ def _on_curve(p, g: BeamGeometry, tol: float) -> bool:
             if between and abs(math.dist(p, (ox, oy)) - r) < near:
                 return True
     return False
+
+
+def curved_edges(g: BeamGeometry) -> list[Arc]:
+    """The arc edges of the outline and of the openings (`fem.case.arcs`)."""
+    arcs = ring_arcs(g.ring) if g.bulges else []
+    for o in g.openings:
+        arcs += ring_arcs(o)
+    return arcs
 
 
 def _snap(seg, edge: str, g: BeamGeometry):
@@ -438,7 +452,9 @@ def validate_geometry(case: Case) -> None:
         raise CaseError(f, "geometry.points", "the outline crosses itself or has no area")
     size = max(outline.bounds[2] - outline.bounds[0], outline.bounds[3] - outline.bounds[1])
     small = MIN_FEATURE * size
-    if g.shape == "polygon" and outline.minimum_clearance < small:
+    if g.bulges:
+        check_ring(g.ring, f, "geometry.points", size, small)
+    elif g.shape != "rectangle" and outline.minimum_clearance < small:
         raise CaseError(f, "geometry.points", f"corners or edges of the outline come within "
                                               f"{outline.minimum_clearance:.3g} of each other; "
                                               f"keep them at least {small:.3g} apart")
@@ -457,6 +473,7 @@ def validate_geometry(case: Case) -> None:
             if cutout_polygon(c, outline).distance(disk) <= 1e-6 * size:
                 raise CaseError(f, f"geometry.holes.{i}", f"touches or overlaps cut-out {j}; "
                                                           "a hole must stand clear of cut-outs")
+    _check_openings(g, f, outline, size, small)
     for i, c in enumerate(g.cutouts):
         if min(c.size) < small:
             raise CaseError(f, f"geometry.cutouts.{i}.size", f"{list(c.size)} is too small to "
@@ -507,3 +524,26 @@ def validate_geometry(case: Case) -> None:
                                                       "the member; move it inside")
             if not cut_strips(g, x, 1.0, dom):
                 raise CaseError(f, f"check.cuts.{i}", f"no material at x = {x:g}")
+
+
+def _check_openings(g: BeamGeometry, f: str, outline: Polygon, size: float,
+                    small: float) -> None:
+    """Each opening a valid ring inside the outline, clear of holes, cut-outs and the others."""
+    inner = outline.buffer(-1e-6 * size)
+    done: list[Polygon] = []
+    for j, ring in enumerate(g.openings):
+        key = f"geometry.openings.{j}"
+        poly = check_ring(ring, f, key, size, small)
+        if not inner.contains(poly):
+            raise CaseError(f, key, "the opening must lie inside the outline, clear of its "
+                                    "edge")
+        for k, other in enumerate(done):
+            if poly.distance(other) <= 1e-6 * size:
+                raise CaseError(f, key, f"touches or overlaps opening {k}")
+        for k, h in enumerate(g.holes):
+            if poly.distance(Point(h.center)) <= h.radius + 1e-6 * size:
+                raise CaseError(f, key, f"touches or overlaps hole {k}")
+        for k, c in enumerate(g.cutouts):
+            if cutout_polygon(c, outline).distance(poly) <= 1e-6 * size:
+                raise CaseError(f, key, f"touches or overlaps cut-out {k}")
+        done.append(poly)

@@ -21,6 +21,8 @@ from classical.units import (
     force_for_stress,
     stress_factor,
 )
+from fem.case.arcs import read_ring
+from fem.case.drawing import Drawing, read_drawing
 from fem.case.model import (
     DISTRIBUTIONS,
     EDGES,
@@ -49,7 +51,7 @@ from fem.case.model import (
 from fem.case.outline import validate_geometry
 from fem.case.plates import read_joints, read_plates, validate_planes
 from fem.case.project import read_project
-from fem.case.reader import Table, as_point, line_of
+from fem.case.reader import Table, line_of
 from fem.case.section_rules import validate_section
 from fem.case.sizing import check_size
 from fem.errors import CaseError
@@ -111,7 +113,7 @@ def _parse(text: str, file: str) -> Case:
                                                "sections refine uniformly")
     check = _check(top.table("check", None), kind)
     if kind == "beam":
-        geometry = _beam_geometry(top.table("geometry"))
+        geometry = _beam_geometry(top.table("geometry"), units)
         supports = tuple(_support(t) for t in top.tables("supports"))
         loads = tuple(_load(t) for t in top.tables("loads"))
         if not supports:
@@ -122,7 +124,7 @@ def _parse(text: str, file: str) -> Case:
             raise top.error("loads", "every load is zero; give at least one non-zero force")
         shear = (0.0, 0.0)
     else:
-        geometry = _section_geometry(top.table("geometry"))
+        geometry = _section_geometry(top.table("geometry"), units)
         lt = top.table("loads")
         shear = _force(lt, "shear")
         lt.close()
@@ -226,23 +228,27 @@ def _check(t: Table | None, kind: str) -> Check:
                  planes=planes)
 
 
-def _beam_geometry(t: Table) -> BeamGeometry:
-    shape = t.text("shape", allowed=("rectangle", "polygon"))
+def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
+    shape = t.text("shape", allowed=("rectangle", "polygon", "drawing"))
     length = depth = 0.0
     points: tuple[tuple[float, float], ...] = ()
+    bulges: tuple[float, ...] = ()
+    source = ""
+    holes = []
+    openings = _openings(t)
     if shape == "rectangle":
         length = t.number("length", low=0.0, low_open=True)
         depth = t.number("depth", low=0.0, low_open=True)
     else:
-        raw = t.raw("points")
-        if not isinstance(raw, list) or len(raw) < 3:
-            raise t.error("points", "must be a list of at least three [x, y] points")
-        points = tuple(as_point(p, t.file, f"{t.key('points')}.{i}") for i, p in enumerate(raw))
-        for i in range(1, len(points)):
-            if points[i] == points[i - 1]:
-                raise t.error(f"points.{i}", f"{list(points[i])} repeats the point before it; "
-                                             "give each corner once")
-    holes = []
+        if shape == "drawing":
+            d = _drawing(t, units)
+            ring, source = d.outline, d.source
+            holes = [Hole(center=(x, y), radius=r) for x, y, r in d.circles]
+            openings = d.openings + openings
+        else:
+            ring = read_ring(t.raw("points"), t.file, t.key("points"))
+        points = tuple((x, y) for x, y, _ in ring)
+        bulges = tuple(b for _, _, b in ring) if any(b for _, _, b in ring) else ()
     for h in t.tables("holes"):
         holes.append(Hole(center=h.point("center"),
                           radius=h.number("radius", low=0.0, low_open=True)))
@@ -268,7 +274,25 @@ def _beam_geometry(t: Table) -> BeamGeometry:
         z.close()
     t.close()
     return BeamGeometry(shape=shape, length=length, depth=depth, points=points,
-                        holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones))
+                        holes=tuple(holes), cutouts=tuple(cutouts), zones=tuple(zones),
+                        bulges=bulges, openings=openings, drawing=source)
+
+
+def _drawing(t: Table, units: Units) -> Drawing:
+    """geometry.file (relative to the case file's folder) and the optional layer."""
+    name = t.text("file")
+    layer = t.text("layer", None)
+    folder = Path(t.file).parent if t.file and not t.file.startswith("<") else Path(".")
+    return read_drawing(folder / name, name, layer, units.length, t.file)
+
+
+def _openings(t: Table) -> tuple[tuple[tuple[float, float, float], ...], ...]:
+    """geometry.openings: holes of any outline, each a ring of [x, y(, bulge)] vertices."""
+    raw = t.raw("openings", [])
+    if not isinstance(raw, list):
+        raise t.error("openings", "must be a list of rings, each a list of [x, y] or "
+                                  "[x, y, bulge] vertices")
+    return tuple(read_ring(r, t.file, f"{t.key('openings')}.{j}") for j, r in enumerate(raw))
 
 
 def _placement(t: Table, allow_hole: bool) -> Placement:
@@ -327,8 +351,15 @@ def _force(t: Table, key: str) -> tuple[float, float]:
     return f
 
 
-def _section_geometry(t: Table) -> SectionGeometry:
-    shape = t.text("shape", allowed=tuple(SECTION_SHAPES))
+def _section_geometry(t: Table, units: Units) -> SectionGeometry:
+    shape = t.text("shape", allowed=(*SECTION_SHAPES, "drawing"))
+    if shape == "drawing":   # a drawn section is a polygon of arcs and lines, with holes
+        d = _drawing(t, units)
+        t.close()
+        holes = [_vertices(o) for o in d.openings]
+        holes += [[(x + r, y, 1.0), (x - r, y, 1.0)] for x, y, r in d.circles]
+        return SectionGeometry(shape="polygon", params={"points": _vertices(d.outline),
+                                                        "holes": holes})
     required, optional = SECTION_SHAPES[shape]
     params: dict[str, Any] = {}
     for k in required + optional:
@@ -347,14 +378,13 @@ def _section_geometry(t: Table) -> SectionGeometry:
 def _rings(t: Table, k: str) -> Any:
     raw = t.raw(k)
     if k == "points":
-        if not isinstance(raw, list) or len(raw) < 3:
-            raise t.error(k, "must be a list of at least three [x, y] points")
-        return [as_point(p, t.file, f"{t.key(k)}.{i}") for i, p in enumerate(raw)]
+        return _vertices(read_ring(raw, t.file, t.key(k)))
     if not isinstance(raw, list):
-        raise t.error(k, "must be a list of rings, each a list of [x, y] points")
-    rings = []
-    for j, ring in enumerate(raw):
-        if not isinstance(ring, list) or len(ring) < 3:
-            raise t.error(f"{k}.{j}", "must be a list of at least three [x, y] points")
-        rings.append([as_point(p, t.file, f"{t.key(k)}.{j}.{i}") for i, p in enumerate(ring)])
-    return rings
+        raise t.error(k, "must be a list of rings, each a list of [x, y] or [x, y, bulge] "
+                         "vertices")
+    return [_vertices(read_ring(r, t.file, f"{t.key(k)}.{j}")) for j, r in enumerate(raw)]
+
+
+def _vertices(ring: tuple[tuple[float, float, float], ...]) -> list[tuple[float, ...]]:
+    """Section vertices: (x, y) where straight, (x, y, bulge) where an arc starts."""
+    return [(x, y, b) if b else (x, y) for x, y, b in ring]

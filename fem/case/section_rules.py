@@ -14,6 +14,7 @@ from typing import Any
 
 from shapely.geometry import Polygon
 
+from fem.case.arcs import check_ring, ring_polygon
 from fem.case.model import THIN_WALL_SHAPES, Case, SectionGeometry
 from fem.case.plates import build_up, validate_built_up, validate_joints
 from fem.errors import CaseError
@@ -59,11 +60,16 @@ def _flanged(shape: str, p: dict[str, Any], file: str) -> None:
           f"flange_width ({b:g})", file)
 
 
-def _ring(points: list[tuple[float, float]], key: str, file: str) -> Polygon:
+def _ring(points: list[tuple[float, ...]], key: str, file: str) -> Polygon:
     for i in range(1, len(points)):
-        if points[i] == points[i - 1]:
+        if points[i][:2] == points[i - 1][:2]:
             raise CaseError(file, f"{key}.{i}", f"{list(points[i])} repeats the point before "
                                                 "it; give each corner once")
+    if any(len(p) > 2 for p in points):  # arc edges (fem.case.arcs)
+        ring = ring_polygon(points)
+        x0, y0, x1, y1 = ring.bounds if not ring.is_empty else (0.0, 0.0, 0.0, 0.0)
+        extent = max(x1 - x0, y1 - y0)
+        return check_ring(points, file, key, extent, MIN_RADIUS * extent)
     ring = Polygon(points)
     if not ring.is_valid or ring.area <= 0:
         raise CaseError(file, key, "the outline crosses itself or has no area; give the "
@@ -150,5 +156,5 @@ def section_extent(g: SectionGeometry) -> float:
     if g.shape == "built-up":
         x0, y0, x1, y1 = build_up(p["plates"]).polygon.bounds
     else:
-        x0, y0, x1, y1 = Polygon(p["points"]).bounds
+        x0, y0, x1, y1 = ring_polygon(p["points"]).bounds
     return float(max(x1 - x0, y1 - y0))

@@ -8,7 +8,8 @@ Triangles per unit area are `DENSITY / h^2` for element size h (gmsh's Frontal-D
 meshes measured here: 2.3 triangles per h^2, an equilateral triangle of side h has area
 0.433 h^2), plus `PERIMETER * DENSITY` per element length of boundary (the boundary row,
 which dominates thin walls meshed coarsely). The refinements of `fem.member.mesh._size_fields`
-(patch ends, re-entrant corners, holes, fillets, `mesh.refine`) grade h linearly from a
+(patch ends, re-entrant corners, holes, fillets, arcs of the outline and openings,
+`mesh.refine`) grade h linearly from a
 fine size to the global size over a distance (at most `GRADING` per unit distance); their
 extra triangles are integrated in closed form and added. Overlapping refinements are
 counted twice, so the estimate errs on the large side there. Section meshes refine sharp
@@ -29,7 +30,7 @@ from shapely.geometry import Point, Polygon
 
 from classical.sections import section_outline
 from fem.case.model import Case
-from fem.case.outline import domain_polygon, patches, reentrant_corners
+from fem.case.outline import curved_edges, domain_polygon, patches, reentrant_corners
 from fem.case.plates import drawn_section
 from fem.errors import CaseError
 
@@ -89,6 +90,12 @@ def _beam_triangles(case: Case, size: float) -> float:
         rmin = min(fillets)
         fine = min(size / 2, 0.5 * math.pi * rmin / 6 * scale)
         per_h2 += 4 * len(fillets) * 0.25 * _graded(fine, size, 0.0, 2 * rmin, rmin) * size**2
+    arcs = curved_edges(g)   # arcs of the outline and openings, graded as fem.member.mesh does
+    if arcs:
+        fine = 2 * math.pi * min(a.radius for a in arcs) / 24 * scale
+        for a in arcs:
+            per_h2 += (abs(a.angle) / (2 * math.pi)
+                       * _graded(min(fine, size), size, 0.0, 1.5 * a.radius, a.radius) * size**2)
     for r in case.mesh.refine:
         per_h2 += (inside(r.at, 2 * r.radius) * _graded(r.size * scale, size, r.radius,
                                                          2 * r.radius) * size**2)

@@ -23,7 +23,7 @@ from fem.errors import SolveError
 from fem.member.adapt import next_size_field, representative_size
 from fem.member.compare import beam_findings, cut_results, peak_result
 from fem.member.concentration import Concentration, concentration_findings, concentrations
-from fem.member.envelope import member_envelope, section_peaks
+from fem.member.envelope import member_envelope, section_peaks, widened
 from fem.member.level import ExcludedZone, Level, excluded_zones, run_level
 from fem.member.planes import member_planes, plane_findings
 from fem.progress import Progress, as_progress
@@ -265,7 +265,8 @@ def _singular_governs(peak: Peak, singular: list[_Singular], radius: float) -> b
 def _station_peaks(levels: list[Level], x: float, zones: list[ExcludedZone]) -> list[float]:
     """The FE peak |tau_xy| of the vertical section at `x` on every level: the envelope's
     worst station of the finest mesh, tracked like a cut so its convergence can be judged."""
-    return [float(section_peaks(lv.field, np.array([x]), zones)[0][0]) for lv in levels]
+    return [float(section_peaks(lv.field, np.array([x]), widened(zones))[0][0])
+            for lv in levels]
 
 
 @dataclass(frozen=True)

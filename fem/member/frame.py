@@ -64,7 +64,8 @@ class Frame:
         return np.asarray(self.origin) + self.scale * xy
 
     def geometry(self, g: BeamGeometry) -> BeamGeometry:
-        """The member's outline, holes, cut-outs and zones in the frame (thickness unchanged)."""
+        """The member's outline, holes, openings, cut-outs and zones in the frame (thickness and
+        arc bulges unchanged)."""
         return replace(
             g, length=self.length(g.length), depth=self.length(g.depth),
             # anything after x, y in a vertex (an arc's bulge) is dimensionless: kept as is
@@ -74,7 +75,10 @@ class Frame:
             cutouts=tuple(replace(c, corner=self.point(c.corner), size=self._size(c),
                                   fillet=self.length(c.fillet)) for c in g.cutouts),
             zones=tuple(replace(z, corner=self.point(z.corner), size=self._size(z))
-                        for z in g.zones))
+                        for z in g.zones),
+            # an opening's vertices are (x, y, bulge); the bulge is dimensionless
+            openings=tuple(tuple(self.point(v[:2]) + tuple(v[2:]) for v in ring)
+                           for ring in g.openings))
 
     def patch(self, p: Patch) -> Patch:
         return replace(p, segments=tuple((self.point(a), self.point(b)) for a, b in p.segments),

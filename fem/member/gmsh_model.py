@@ -13,6 +13,7 @@ import math
 
 import gmsh
 
+from classical.arcs import arc_midpoint
 from fem.case.model import BeamGeometry, Cutout, Hole, Zone
 from fem.case.outline import Patch, outline_polygon
 
@@ -25,10 +26,31 @@ def _outline(g: BeamGeometry) -> int:
     occ = gmsh.model.occ
     if g.shape == "rectangle":
         return occ.addRectangle(0.0, 0.0, 0.0, g.length, g.depth)
+    if g.bulges:
+        return _ring_surface(g.ring)
     pts = list(outline_polygon(g).exterior.coords)[:-1]
     tags = [occ.addPoint(x, y, 0.0) for x, y in pts]
     lines = [occ.addLine(tags[i], tags[(i + 1) % len(tags)]) for i in range(len(tags))]
     return occ.addPlaneSurface([occ.addCurveLoop(lines)])
+
+
+def _ring_surface(ring: tuple[tuple[float, float, float], ...]) -> int:
+    """A plane surface bounded by straight edges and true circular arcs (bulge != 0); each
+    arc is drawn through its midpoint, so arcs beyond a half circle are unambiguous."""
+    occ = gmsh.model.occ
+    tags = [occ.addPoint(x, y, 0.0) for x, y, _ in ring]
+    n = len(ring)
+    curves = []
+    for k in range(n):
+        a, b = ring[k], ring[(k + 1) % n]
+        if a[2] == 0.0:
+            curves.append(occ.addLine(tags[k], tags[(k + 1) % n]))
+        else:
+            mx, my = arc_midpoint(a[:2], b[:2], a[2])
+            mid = occ.addPoint(float(mx), float(my), 0.0)
+            curves.append(occ.addCircleArc(tags[k], mid, tags[(k + 1) % n], center=False))
+            occ.remove([(0, mid)])
+    return occ.addPlaneSurface([occ.addCurveLoop(curves)])
 
 
 def _hole(h: Hole) -> int:
@@ -88,6 +110,7 @@ def build_member(g: BeamGeometry, supports: list[Patch], loads: list[Patch]) -> 
     dom = [(2, _outline(g))]
     tools = [(2, _hole(h)) for h in g.holes]
     tools += [(2, _cutout(c, _corner_inside(c, g))) for c in g.cutouts]
+    tools += [(2, _ring_surface(o)) for o in g.openings]
     if tools:
         dom, _ = occ.cut(dom, tools)
     zone_parts: list[tuple[int, list[tuple[int, int]]]] = []

@@ -19,7 +19,14 @@ import numpy as np
 from skfem import MeshTri1, MeshTri2
 
 from fem.case.model import Case
-from fem.case.outline import Patch, check_mechanism, domain_polygon, patches, reentrant_corners
+from fem.case.outline import (
+    Patch,
+    check_mechanism,
+    curved_edges,
+    domain_polygon,
+    patches,
+    reentrant_corners,
+)
 from fem.case.sizing import GRADING, estimate_dofs  # GRADING: size growth per unit distance
 from fem.errors import SolveError
 from fem.gmsh_session import gmsh_session, set_background
@@ -96,8 +103,19 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch], fr
         # 24 elements round the hole at level 0, doubling with each level
         threshold(None, curves, min(size / 2, 2 * math.pi * h.radius / 24 * scale),
                   0.0, 1.5 * h.radius)
-    fillet_curves = [t for _, t in gmsh.model.getEntities(1)
-                     if gmsh.model.getType(1, t) == "Circle" and not _is_hole(gf, t)]
+    arcs = curved_edges(g)   # arcs of the outline and openings (fem.case.arcs)
+    arcs_f = curved_edges(gf)  # the same arcs in the mesh frame, to find their gmsh curves
+    circles = [t for _, t in gmsh.model.getEntities(1)
+               if gmsh.model.getType(1, t) == "Circle" and not _is_hole(gf, t)]
+    arc_curves = [t for t in circles if _is_arc(arcs_f, t)]
+    fillet_curves = [t for t in circles if t not in arc_curves]
+    if arc_curves:
+        rmin = min(a.radius for a in arcs)
+        # 24 elements round a full circle of the smallest arc at level 0 (a no-op for arcs
+        # large beside the element size, e.g. a haunch), doubling with each level
+        fine = 2 * math.pi * rmin / 24 * scale
+        if fine < size:
+            threshold(None, arc_curves, fine, 0.0, 1.5 * rmin)
     if fillet_curves:
         rmin = min(c.fillet for c in g.cutouts if c.fillet > 0)
         # 6 elements along a quarter-circle fillet at level 0, doubling with each level
@@ -113,6 +131,12 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch], fr
 def _is_hole(g, tag: int) -> bool:
     xyz = gmsh.model.getValue(1, tag, [gmsh.model.getParametrizationBounds(1, tag)[0][0]])
     return any(abs(math.dist(xyz[:2], h.center) - h.radius) < 1e-6 * h.radius for h in g.holes)
+
+
+def _is_arc(arcs, tag: int) -> bool:
+    lo, hi = gmsh.model.getParametrizationBounds(1, tag)
+    xyz = gmsh.model.getValue(1, tag, [0.5 * (lo[0] + hi[0])])
+    return any(abs(math.dist(xyz[:2], a.centre) - a.radius) < 1e-6 * a.radius for a in arcs)
 
 
 def _phys_tag(dim: int, name: str) -> int:
@@ -176,9 +200,10 @@ def mesh_member(case: Case, size: float | None = None,
 
 
 def _curved(case: Case) -> bool:
-    """Holes and fillets need curved (isoparametric) P2 elements; straight outlines do not."""
+    """Holes, fillets and arcs need curved (isoparametric) P2 elements; straight outlines
+    do not."""
     g = case.beam
-    return bool(g.holes) or any(c.fillet > 0 for c in g.cutouts)
+    return bool(g.holes) or any(c.fillet > 0 for c in g.cutouts) or bool(curved_edges(g))
 
 
 def _min_jacobian() -> float:

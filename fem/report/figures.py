@@ -26,6 +26,9 @@ def write_figures(res: Any, folder: Path) -> list[Path]:
 
         paths = write_section_figures(res.case, res.run, folder)
         paths += write_wall_figures(res.case, res.run, folder)
+    from fem.report.model_figure import run_figure  # the model as `shearcheck show` draws it
+
+    paths.insert(0, run_figure(res, Path(folder)))
     from fem.report.convergence_figure import convergence_figure, has_study
 
     if has_study(res.result.convergence):

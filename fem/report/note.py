@@ -383,7 +383,9 @@ def _assumptions(res: Any) -> Section:
     return s
 
 
-_CAPTIONS = {"shear-contour": "Shear stress τxy over the member (finest mesh), with the cuts, "
+_CAPTIONS = {"model": "The model as solved: outline, holes, zones, supports, loads with "
+                      "their resultants, cuts, refinements and the first level's mesh.",
+             "shear-contour": "Shear stress τxy over the member (finest mesh), with the cuts, "
                               "supports, loads and the excluded zones.",
              "von-mises-contour": "Von Mises stress over the member (finest mesh).",
              "ratio-along-member": "FE peak |τxy| of every vertical section against the hand "

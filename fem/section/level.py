@@ -480,7 +480,7 @@ def _assemble(shape: str, choice: HandChoice, geom: SectionShape, smesh: Section
                    "relative_error": rel},
         mesh=MeshInfo(smesh.nodes, smesh.elements, sol.dofs, float(size), order,
                       curved=order == 2 and any(r.circle is not None or bool(r.radii.any())
-                                                for r in geom.rings),
+                                                or r.bulges is not None for r in geom.rings),
                       solver=sol.solver),
         timings=timings, verdict=verdict, findings=tuple(findings), solution=sol,
     )

@@ -29,7 +29,8 @@ import gmsh
 import numpy as np
 from skfem import MeshTri1, MeshTri2
 
-from classical.sections import Outline, section_outline
+from classical.arcs import arc_midpoint, arc_radius, arc_tangents, facet_ring, ring_circle
+from classical.sections import Outline, section_outline, split_vertices
 from fem.case.outline import is_sharp_corner
 from fem.gmsh_session import gmsh_session, set_background
 
@@ -56,13 +57,22 @@ class Ring:
     points: np.ndarray = field(default_factory=lambda: np.zeros((0, 2)))
     radii: np.ndarray = field(default_factory=lambda: np.zeros(0))
     circle: tuple[float, float, float] | None = None
+    bulges: np.ndarray | None = None   # arc edges (classical.arcs): edge k -> k + 1
 
     def material_angles(self) -> np.ndarray:
-        """Angle of material at each vertex [rad] (pi - the signed turn; > pi re-entrant)."""
+        """Angle of material at each vertex [rad] (pi - the signed turn; > pi re-entrant).
+
+        The turn is between the tangents of the edges that meet there, so a straight edge
+        running tangent into an arc is no corner at all."""
         if self.circle is not None:
             return np.zeros(0)
         p = self.points
         d_in, d_out = p - np.roll(p, 1, axis=0), np.roll(p, -1, axis=0) - p
+        if self.bulges is not None and np.any(self.bulges):
+            n = len(p)
+            for k in np.flatnonzero(self.bulges):
+                t0, t1 = arc_tangents(p[k], p[(k + 1) % n], float(self.bulges[k]))
+                d_out[k], d_in[(k + 1) % n] = t0, t1
         cross = d_in[:, 0] * d_out[:, 1] - d_in[:, 1] * d_out[:, 0]
         dot = np.sum(d_in * d_out, axis=1)
         return np.pi - np.arctan2(cross, dot)
@@ -79,15 +89,22 @@ class Ring:
 
 def _polygon_ring(points: Sequence[Sequence[float]], radii: Sequence[float] | None = None,
                   hole: bool = False) -> Ring:
-    pts = np.asarray(points, dtype=float)
-    if len(pts) > 1 and np.array_equal(pts[0], pts[-1]):
-        pts = pts[:-1]
+    """A ring of vertices [x, y] or [x, y, bulge] (arc edges, classical.arcs); a ring made
+    wholly of arcs of one circle is that circle."""
+    pts, bulges = split_vertices(points)
+    if len(pts) > 2 and np.array_equal(pts[0], pts[-1]):
+        pts, bulges = pts[:-1], bulges[:-1]
+    circle = ring_circle(pts, bulges)
+    if circle is not None:
+        return _circle_ring(*circle)
     rad = np.zeros(len(pts)) if radii is None else np.asarray(radii, dtype=float)
-    x, y = pts[:, 0], pts[:, 1]
+    x, y = facet_ring(pts, bulges).T
     ccw = np.sum(x * np.roll(y, -1) - np.roll(x, -1) * y) > 0
     if ccw == hole:  # material on the left: outer CCW, holes CW
+        # reversed, edge j runs back along the old edge n-2-j: the bulge changes sign
         pts, rad = pts[::-1].copy(), rad[::-1].copy()
-    return Ring(points=pts, radii=rad)
+        bulges = -np.roll(bulges[::-1], -1)
+    return Ring(points=pts, radii=rad, bulges=bulges if np.any(bulges) else None)
 
 
 def _circle_ring(xc: float, yc: float, r: float) -> Ring:
@@ -290,15 +307,33 @@ def _add_ring(ring: Ring) -> tuple[int, list[int], list[int], list[int]]:
             vertex_tags.append(tag)
     curves: list[int] = []
     arc_of = dict(arcs)
+    bulges = ring.bulges if ring.bulges is not None else np.zeros(n)
     for k in range(n):
         if k in arc_of:
             curves.append(arc_of[k])
-        curves.append(occ.addLine(exit_[k], entry[(k + 1) % n]))
+        if bulges[k]:  # an arc edge through its midpoint (unambiguous beyond a half circle)
+            mid = occ.addPoint(*arc_midpoint(p[k], p[(k + 1) % n], float(bulges[k])), 0.0)
+            edge = occ.addCircleArc(exit_[k], mid, entry[(k + 1) % n], center=False)
+            occ.remove([(0, mid)])
+            curves.append(edge)
+            arcs.append((-1 - k, edge))
+        else:
+            curves.append(occ.addLine(exit_[k], entry[(k + 1) % n]))
     if centres:
         occ.remove([(0, c) for c in centres])
     sharp = [t for t, re in zip(vertex_tags, ring.reentrant()[ring.radii == 0.0], strict=True)
              if re]
     return occ.addCurveLoop(curves), curves, sharp, [a for _, a in arcs]
+
+
+def _arc_radii(ring: Ring) -> list[float]:
+    """Radii of a ring's arcs in the order `_add_ring` returns them (fillets, then edges)."""
+    radii = [float(r) for r in ring.radii[ring.radii > 0]]
+    if ring.bulges is not None:
+        n = len(ring.points)
+        radii += [arc_radius(ring.points[k], ring.points[(k + 1) % n], float(ring.bulges[k]))
+                  for k in np.flatnonzero(ring.bulges)]
+    return radii
 
 
 def _threshold(dist: int, fine: float, size: float) -> int:
@@ -415,7 +450,7 @@ def mesh_section(geometry: SectionShape, size: float, order: int = 2,
             ring_curves.append(c)
             sharp += s
             arcs += a
-            radii += [float(r) for r in ring.radii[ring.radii > 0]]
+            radii += _arc_radii(ring)
         surface = occ.addPlaneSurface(loops)
         occ.synchronize()
         gmsh.model.addPhysicalGroup(2, [surface], name="section")
