@@ -412,3 +412,124 @@ def test_key_lines_follow_tables_arrays_and_multiline_values():
     assert lines["points"] == 2 and lines["geometry.b"] == 7
     assert lines["geometry.holes.0.c"] == 9 and lines["geometry.holes.1.c"] == 11
     assert lines["mesh.size"] == 13 and "0.0, 1.0" not in "".join(lines)
+
+
+# --- second round: stated limits, each just under and just over --------------------------------
+
+def _rect_with_bottom_points(n: int) -> str:
+    """The 300 x 100 rectangle drawn with n points, the extra ones along the bottom edge."""
+    bottom = [(300.0 * i / (n - 3), 0.0) for i in range(n - 2)]
+    pts = bottom + [(300.0, 100.0), (0.0, 100.0)]
+    return ('[geometry]\nshape = "polygon"\npoints = ['
+            + ", ".join(f"[{x!r}, {y!r}]" for x, y in pts) + "]\n")
+
+
+def _holes(n: int) -> str:
+    return "".join(f"[[geometry.holes]]\ncenter = [{12.0 + 11.0 * (i % 25)}, "
+                   f"{20.0 + 20.0 * (i // 25)}]\nradius = 1.0\n" for i in range(n))
+
+
+@pytest.mark.parametrize("key, under, over", [
+    ("title", lambda n: good(title="T" * n), 200),
+    ("check.cuts", lambda n: good() + "[check]\ncuts = ["
+     + ", ".join(f"{5.0 + 5.0 * i}" for i in range(n)) + "]\n", 50),
+    ("geometry.holes", lambda n: good(extra=_holes(n)), 100),
+    ("geometry.points", lambda n: good(
+        support='from = [0.0, 0.0]\nto = [0.0, 100.0]\nfix = "xy"').replace(
+        '[geometry]\nshape = "rectangle"\nlength = 300.0\ndepth = 100.0\n',
+        _rect_with_bottom_points(n)).replace(
+        'edge = "right"', 'from = [300.0, 0.0]\nto = [300.0, 100.0]'), 2000),
+])
+def test_stated_limits_just_under_and_just_over(key, under, over):
+    """At the limit the case is read; one more is refused naming the key and the limit."""
+    parse_case(under(over), "limit.toml")
+    with pytest.raises(CaseError) as err:
+        parse_case(under(over + 1), "limit.toml")
+    assert err.value.key == key and f"at most {over:,}" in str(err.value)
+
+
+def test_section_polygon_points_are_limited_with_their_holes():
+    from fem.case.limits import MAX_POINTS
+
+    ring = [[float(i), 0.0] for i in range(MAX_POINTS - 2)] + [[0.0, 5.0]]
+    ok = SECTION.format(geo=f'shape = "polygon"\npoints = {ring}', size=100.0)
+    with pytest.raises(CaseError) as err:
+        parse_case(ok.replace("points = ", "holes = [[[1.0, 1.0], [2.0, 1.0], [2.0, 2.0]]]\n"
+                                           "points = "), "sec.toml")
+    assert err.value.key == "geometry.holes" and f"at most {MAX_POINTS:,}" in str(err.value)
+
+
+def test_case_file_is_read_with_a_cap(tmp_path: Path):
+    """At the cap a (padded) case is read; one byte more, or /dev/zero, is refused quickly."""
+    import time
+
+    from fem.case.limits import MAX_FILE_BYTES
+    from fem.case.parse import load_case
+
+    text = good().encode("utf-8")
+    at = tmp_path / "at.toml"
+    at.write_bytes(text + b"#" * (MAX_FILE_BYTES - len(text) - 1) + b"\n")
+    assert at.stat().st_size == MAX_FILE_BYTES and load_case(at).name == "good"
+    over = tmp_path / "over.toml"
+    over.write_bytes(text + b"#" * (MAX_FILE_BYTES - len(text)) + b"\n")
+    with pytest.raises(CaseError, match="larger than 4 MB"):
+        load_case(over)
+    if os.path.exists("/dev/zero"):
+        t0 = time.perf_counter()
+        with pytest.raises(CaseError, match="larger than 4 MB"):
+            load_case("/dev/zero")
+        assert time.perf_counter() - t0 < 10
+
+
+def test_byte_order_mark_is_accepted(tmp_path: Path):
+    from fem.case.parse import load_case
+
+    p = tmp_path / "bom.toml"
+    p.write_bytes(b"\xef\xbb\xbf" + good().encode("utf-8"))
+    assert load_case(p).name == "good"
+    assert parse_case("\ufeff" + good(), "bom.toml").name == "good"
+
+
+def test_nesting_just_under_the_limit_reaches_the_key_check():
+    """20 levels is read as TOML (and refused as an unknown key); 21 is refused as nesting,
+    and 5000 never reaches the recursive parser."""
+    from fem.case.limits import MAX_NESTING
+
+    def nested(n: int) -> str:
+        return good() + "[extra]\nx = " + "[" * n + "]" * n + "\n"
+
+    with pytest.raises(CaseError, match="unknown key"):
+        parse_case(nested(MAX_NESTING), "n.toml")
+    for n in (MAX_NESTING + 1, 5000):
+        with pytest.raises(CaseError, match="nested more than"):
+            parse_case(nested(n), "n.toml")
+
+
+def test_load_partly_on_a_support_is_still_allowed():
+    """Only a load wholly on a stretch fixed in its directions is refused: one that reaches
+    past the clamp, or pushes along a direction the support leaves free, is a load."""
+    parse_case(good(support='from = [0.0, 0.0]\nto = [0.0, 50.0]\nfix = "xy"').replace(
+        'edge = "right"', 'edge = "left"'), "part.toml")
+    with pytest.raises(CaseError, match="lies wholly on a support fixed in y"):
+        parse_case(good().replace('edge = "right"', 'from = [0.0, 20.0]\nto = [0.0, 60.0]'),
+                   "on.toml")
+
+
+def test_error_log_is_never_written_through_a_planted_link(tmp_path: Path, monkeypatch,
+                                                            capsys):
+    """A symbolic link named shearcheck-error.log in the output folder is not followed: the
+    file it points at keeps its content and the message says no log was written."""
+    import fem.api
+    from fem.cli import main
+
+    case = tmp_path / "good.toml"
+    case.write_text(good(), encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    victim = tmp_path / "victim.txt"
+    victim.write_text("precious", encoding="utf-8")
+    (out / "shearcheck-error.log").symlink_to(victim)
+    monkeypatch.setattr(fem.api, "check", lambda *a, **k: 1 / 0)
+    assert main(["run", str(case), "--out", str(out)]) == 1
+    assert victim.read_text(encoding="utf-8") == "precious"
+    assert "no log could be written" in capsys.readouterr().err
