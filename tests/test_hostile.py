@@ -533,3 +533,86 @@ def test_error_log_is_never_written_through_a_planted_link(tmp_path: Path, monke
     assert main(["run", str(case), "--out", str(out)]) == 1
     assert victim.read_text(encoding="utf-8") == "precious"
     assert "no log could be written" in capsys.readouterr().err
+
+
+# --- second round: the guard on the real model ------------------------------------------------
+
+def _arched(n: int, size: float) -> str:
+    """A 300 mm member whose top is an arch drawn with n points (outline detail)."""
+    import math
+
+    top = [(300.0 - 300.0 * i / (n - 1), 100.0 + 40.0 * math.sin(math.pi * i / (n - 1)))
+           for i in range(n)]
+    pts = [(0.0, 0.0), (300.0, 0.0)] + top
+    return good(size=size, support='from = [0.0, 0.0]\nto = [0.0, 100.0]\nfix = "xy"').replace(
+        '[geometry]\nshape = "rectangle"\nlength = 300.0\ndepth = 100.0\n',
+        '[geometry]\nshape = "polygon"\npoints = ['
+        + ", ".join(f"[{x!r}, {y!r}]" for x, y in pts) + "]\n").replace(
+        'edge = "right"', 'from = [300.0, 0.0]\nto = [300.0, 100.0]')
+
+
+@pytest.mark.parametrize("n, size", [(200, 50.0), (1998, 50.0), (1998, 10.0)])
+def test_dof_estimate_counts_outline_detail(n, size):
+    """Many short outline segments (once estimated at 0.02 of the real count): within 1.5."""
+    from fem.case.sizing import estimate_dofs
+    from fem.member.mesh import mesh_member
+
+    case = parse_case(_arched(n, size), "arch.toml")
+    m = mesh_member(case).finder_mesh
+    real = 2 * (m.nvertices + m.facets.shape[1])
+    assert 1 / 1.5 < estimate_dofs(case, size) / real < 1.5
+
+
+def test_section_dof_estimate_counts_polygon_points():
+    import math
+
+    from fem.case.sizing import estimate_dofs
+    from fem.section.mesh import mesh_section, section_shape
+
+    ring = [[round(50 * math.cos(2 * math.pi * i / 1998), 9),
+             round(50 * math.sin(2 * math.pi * i / 1998), 9)] for i in range(1998)]
+    case = parse_case(SECTION.format(geo=f'shape = "polygon"\npoints = {ring}', size=20.0),
+                      "sec.toml")
+    g = case.geometry
+    real = mesh_section(section_shape(g.shape, **g.params), 20.0, 2).mesh.doflocs.shape[1]
+    assert 1 / 1.5 < estimate_dofs(case, 20.0) / real < 1.5
+
+
+def test_real_dof_count_is_checked_after_meshing_before_assembly(monkeypatch, tmp_path,
+                                                                 capsys):
+    """An estimate beaten by the outline (simulated: the estimate says 1 dof) is caught on
+    the real mesh: exit 2 naming mesh.max_dofs and the real count, and no solve starts."""
+    import fem.case.parse
+    import fem.member.mesh
+    import fem.member.solve
+    from fem.cli import main
+
+    monkeypatch.setattr(fem.member.mesh, "estimate_dofs", lambda case, size: 1)
+    monkeypatch.setattr(fem.case.parse, "check_size", lambda case: None)
+    monkeypatch.setattr(fem.member.solve, "solve_member",
+                        lambda *a, **k: pytest.fail("assembly must not start"))
+    case = tmp_path / "c.toml"
+    case.write_text(good(size=10.0).replace("levels = 1", "levels = 1\nmax_dofs = 3457"),
+                    encoding="utf-8")
+    assert main(["run", str(case), "--out", str(tmp_path / "o"), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert "mesh.max_dofs" in err and "has 3,458 dofs" in err and "3,457" in err
+    # at the limit the same mesh is accepted
+    case.write_text(good(size=10.0).replace("levels = 1", "levels = 1\nmax_dofs = 3458"),
+                    encoding="utf-8")
+    parsed = parse_case(case.read_text(encoding="utf-8"), "c.toml")
+    assert fem.member.mesh.mesh_member(parsed).finder_mesh.nvertices > 0
+
+
+def test_holes_of_one_radius_share_a_size_field_and_the_mesh_is_unchanged(monkeypatch):
+    """One Distance field over all holes of a radius gives the mesh one field per hole gave
+    (the minimum of equal thresholds is the threshold of the minimum distance)."""
+    import fem.member.mesh
+
+    extra = "".join(f"[[geometry.holes]]\ncenter = [{x}, 50.0]\nradius = 8.0\n"
+                    for x in (80.0, 150.0, 220.0))
+    case = parse_case(good(extra=extra, size=20.0), "h.toml")
+    shared = fem.member.mesh.mesh_member(case).mesh
+    monkeypatch.setattr(fem.member.mesh, "SHARED_HOLE_FIELDS", False)
+    apart = fem.member.mesh.mesh_member(case).mesh
+    assert shared.p.shape == apart.p.shape and shared.t.shape == apart.t.shape
