@@ -616,3 +616,22 @@ def test_holes_of_one_radius_share_a_size_field_and_the_mesh_is_unchanged(monkey
     monkeypatch.setattr(fem.member.mesh, "SHARED_HOLE_FIELDS", False)
     apart = fem.member.mesh.mesh_member(case).mesh
     assert shared.p.shape == apart.p.shape and shared.t.shape == apart.t.shape
+
+
+# --- second round: scale ----------------------------------------------------------------------
+
+@pytest.mark.parametrize("length, depth, size, cuts", [
+    (60000.0, 3000.0, 1000.0, "[1.0, 30000.0]"),     # a 60 m girder, a cut 1 mm from the clamp
+    (300.0, 100.0, 50.0, "[0.0004, 150.0]"),         # a cut 0.0004 from the clamp
+    (3e4, 1e4, 5e3, "[1.5e4]"),                      # the stub scaled by 100
+])
+def test_hand_statics_hold_at_any_scale(length, depth, size, cuts):
+    """Once refused as 'supports cannot carry the loads by statics': V at every cut is the
+    tip load (cantilever statics, common practice)."""
+    from fem.member.hand_only import beam_hand_result
+
+    text = good(size=size).replace("length = 300.0", f"length = {length}").replace(
+        "depth = 100.0", f"depth = {depth}") + f"[check]\ncuts = {cuts}\n"
+    res, _ = beam_hand_result(parse_case(text, "scale.toml"))
+    for c in res.to_dict()["cuts"]:
+        assert abs(c["V_hand"]) == pytest.approx(10000.0, rel=1e-9)

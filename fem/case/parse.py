@@ -61,7 +61,7 @@ from fem.case.model import (
 from fem.case.outline import validate_geometry
 from fem.case.reader import Table, as_point, line_of
 from fem.case.section_rules import validate_section
-from fem.case.sizing import check_size
+from fem.case.sizing import check_scale, check_size
 from fem.errors import CaseError
 
 __all__ = ["load_case", "parse_case", "decode_case", "read_case_text"]
@@ -201,6 +201,7 @@ def _parse(text: str, file: str) -> Case:
     case = Case(name=case_name, title=title, kind=kind, units=units, material=material,
                 geometry=geometry, mesh=mesh, check=check, supports=supports, loads=loads,
                 shear=shear, file=file, schema=schema)
+    check_scale(case)
     if kind == "beam":
         validate_geometry(case)
     else:

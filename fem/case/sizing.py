@@ -32,7 +32,8 @@ from fem.case.model import Case
 from fem.case.outline import domain_polygon, outline_polygon, patches, reentrant_corners
 from fem.errors import CaseError
 
-__all__ = ["estimate_dofs", "level_size", "check_size", "check_real_dofs", "DENSITY",
+__all__ = ["estimate_dofs", "level_size", "check_size", "check_real_dofs", "check_scale",
+           "DENSITY",
            "PERIMETER", "GRADING"]
 
 DENSITY = 2.3    # triangles per (element size)^2 of area
@@ -210,6 +211,69 @@ def check_real_dofs(case: Case, dofs: int, size: float) -> None:
                         f"{estimate_dofs(case, size):,}), above the limit "
                         f"{case.mesh.max_dofs:,}; raise mesh.size or mesh.max_dofs, or draw "
                         "the outline with fewer points")
+
+
+def _extent(case: Case) -> tuple[str, float, float]:
+    """(key, larger side, largest |coordinate|) of the member or section as written."""
+    if case.kind == "beam":
+        g = case.beam
+        if g.shape == "rectangle":
+            return "geometry.length", max(g.length, g.depth), max(g.length, g.depth)
+        xy = np.asarray(g.points, dtype=float)
+        key = "geometry.points"
+    else:
+        p = case.section.params
+        if case.section.shape != "polygon":
+            side = max(float(v) for k, v in p.items() if isinstance(v, float)
+                       and k != "root_radius")
+            return f"geometry.{next(iter(p))}", side, side
+        xy = np.asarray(p["points"], dtype=float)
+        key = "geometry.points"
+    side = float(max(np.ptp(xy[:, 0]), np.ptp(xy[:, 1])))
+    return key, side, float(np.abs(xy).max())
+
+
+def check_scale(case: Case) -> None:
+    """Refuse numbers the model cannot carry in floating point: "out of scale", naming
+    the key (limits and their reasons in `fem.case.limits`). Runs before any geometry
+    check, so nothing downstream sees such a model."""
+    from fem.case.limits import (
+        MAX_EXTENT,
+        MAX_OFFSET,
+        MIN_EXTENT,
+        NUMBER_RANGE,
+        THICKNESS_RATIO,
+    )
+
+    f, unit = case.file, case.units.length
+    key, side, far = _extent(case)
+    if not MIN_EXTENT <= side <= MAX_EXTENT:
+        raise CaseError(f, key, f"out of scale: the {case.kind} is {side:.3g} {unit} across; "
+                                f"the mesher works from {MIN_EXTENT:g} to {MAX_EXTENT:g} "
+                                "length units: give lengths in another unit (units.length)")
+    if far > MAX_OFFSET * side:
+        raise CaseError(f, key, f"out of scale: the {case.kind} lies {far / side:.3g} times "
+                                f"its own size ({side:.3g} {unit}) from the origin; at most "
+                                f"{MAX_OFFSET:g}: move it near (0, 0)")
+    t = case.material.thickness
+    if case.kind == "beam" and not 1 / THICKNESS_RATIO <= t / side <= THICKNESS_RATIO:
+        raise CaseError(f, "material.thickness",
+                        f"out of scale: {t:.3g} against a member {side:.3g} {unit} across "
+                        f"(ratio {t / side:.3g}; allowed {1 / THICKNESS_RATIO:g} to "
+                        f"{THICKNESS_RATIO:g})")
+    if case.kind == "beam":
+        force = max(math.hypot(*ld.force) for ld in case.loads)
+        stress, fkey = force / (t * side), "loads"
+    else:
+        force = math.hypot(*case.shear)
+        stress, fkey = force / side**2, "loads.shear"
+    for what, value, k in (("the nominal stress force / area", stress, fkey),
+                           ("the nominal strain (stress / E)", stress / case.material.E,
+                            "material.E")):
+        if not 1 / NUMBER_RANGE <= value <= NUMBER_RANGE:
+            raise CaseError(f, k, f"out of scale: {what} is {value:.3g}; allowed "
+                                  f"{1 / NUMBER_RANGE:g} to {NUMBER_RANGE:g} (its square must "
+                                  "stay a finite number)")
 
 
 def check_size(case: Case) -> None:
