@@ -176,9 +176,9 @@ def _load(case_path: Path, out: Path | None):
         _log_internal(out if out is not None else Path("out"))
         raise
     out = out if out is not None else Path("out") / case.name
-    if out.exists() and not out.is_dir():
-        raise CaseError(str(out), "--out", "exists and is not a folder; give a folder for the "
-                                           "outputs")
+    from fem.output_folder import check_writable
+
+    check_writable(out)   # before the solve: a folder we cannot write is found at once
     return case, out
 
 

@@ -362,7 +362,8 @@ def test_default_output_folder_is_out_slash_name_and_nothing_leaks(tmp_path: Pat
     (tmp_path / "c.toml").write_text(good(), encoding="utf-8")
     assert main(["run", "c.toml", "--no-report", "--quiet"]) == 0
     written = sorted(str(p.relative_to(tmp_path)) for p in tmp_path.rglob("*") if p.is_file())
-    assert written == ["c.toml", os.path.join("out", "good", "results.json")]
+    assert written == ["c.toml", os.path.join("out", "good", "manifest.json"),
+                       os.path.join("out", "good", "results.json")]
 
 
 def test_case_file_is_data_not_code(tmp_path: Path, monkeypatch):

@@ -41,6 +41,7 @@ from fem.api import check
 from fem.case.limits import MAX_SWEEP_POINTS
 from fem.case.parse import parse_case, read_case_text
 from fem.errors import CaseError, SolveError
+from fem.output_folder import check_writable
 from fem.results import atomic_write, write_json
 from fem.study.index import append_row, compact_index, read_index, refuse_link
 from fem.study.keys import Vary, get_key, parse_vary, set_key
@@ -256,15 +257,13 @@ def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
               warn: Callable[[str], None] | None = None) -> SweepReport:
     """Run (or resume) a sweep into `out`; see the module docstring for the layout."""
     case_path, out = Path(case_path), Path(out)
-    if out.exists() and not out.is_dir():
-        raise CaseError(str(out), "--out", "exists and is not a folder; give a folder for the "
-                                           "sweep")
     text = read_case_text(case_path)
     base_case = parse_case(text, str(case_path))          # the base itself must be valid
     base = tomllib.loads(text)
     if not varies:
         raise CaseError("--vary", "", "give at least one --vary KEY=START:STOP:N")
     points = make_points(base, varies, str(case_path), levels)
+    check_writable(out)     # a file, or a folder we cannot write, before anything runs
     ident = _identity(case_path, text, varies, levels)
     manifest = out / "sweep.json"
     refuse_link(manifest)
