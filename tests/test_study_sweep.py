@@ -355,3 +355,49 @@ def test_index_is_never_written_through_a_planted_link(stub, tmp_path):
     (out / "index.jsonl").symlink_to(victim)
     assert main(["sweep", str(stub), "--vary", FAILING, "--out", str(out), "--quiet"]) == 2
     assert victim.read_text(encoding="utf-8") == "precious"
+
+
+def _children(pid: int) -> set[int]:
+    path = Path(f"/proc/{pid}/task/{pid}/children")
+    return {int(x) for x in path.read_text().split()} if path.exists() else set()
+
+
+def _alive(pid: int) -> bool:
+    try:
+        stat = Path(f"/proc/{pid}/stat").read_text()
+    except OSError:
+        return False
+    return stat.rsplit(")", 1)[1].split()[0] != "Z"
+
+
+@pytest.mark.skipif(not Path("/proc/self/task").exists(), reason="needs /proc")
+@pytest.mark.parametrize("sig", [signal.SIGTERM, signal.SIGINT, signal.SIGKILL])
+def test_sweep_workers_end_with_the_main_process(stub, tmp_path, sig):
+    """SIGTERM or SIGINT to the sweep's main process alone (not its group), or SIGKILL that
+    no handler sees: every worker process is gone within seconds."""
+    cmd = [sys.executable, "-m", "fem.cli", "sweep", str(stub), "--vary",
+           "geometry.length=100:250:8", "--out", str(tmp_path), "--workers", "2", "--quiet"]
+    proc = subprocess.Popen(cmd, cwd=ROOT, start_new_session=True, stdout=subprocess.DEVNULL,
+                            stderr=subprocess.DEVNULL)
+    try:
+        deadline = time.monotonic() + 120
+        workers: set[int] = set()
+        while time.monotonic() < deadline and proc.poll() is None:
+            workers = _children(proc.pid)
+            if len(workers) >= 2 and any(_children(w) == set() for w in workers):
+                time.sleep(1.0)        # let them start a point
+                workers = _children(proc.pid)
+                break
+            time.sleep(0.05)
+        assert proc.poll() is None and len(workers) >= 2
+        os.kill(proc.pid, sig)
+        proc.wait(timeout=60)
+        end = time.monotonic() + 20
+        while time.monotonic() < end and any(_alive(w) for w in workers):
+            time.sleep(0.1)
+        assert not any(_alive(w) for w in workers), sig
+    finally:
+        if proc.poll() is None:
+            os.killpg(proc.pid, signal.SIGKILL)
+        for w in _children(proc.pid):
+            os.kill(w, signal.SIGKILL)

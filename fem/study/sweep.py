@@ -45,7 +45,13 @@ from fem.output_folder import check_writable
 from fem.results import atomic_write, write_json
 from fem.study.index import append_row, compact_index, read_index, refuse_link
 from fem.study.keys import Vary, get_key, parse_vary, set_key
-from fem.study.pool import POINT_LOCK, process_pool, progress_bar
+from fem.study.pool import (
+    POINT_LOCK,
+    end_workers,
+    process_pool,
+    progress_bar,
+    terminate_as_interrupt,
+)
 from fem.study.sweep_outputs import CSV_FIELDS, finish, ratio_figure, threshold
 from fem.study.toml_writer import dumps_toml
 
@@ -166,11 +172,12 @@ def _run_local(todo: list[Point], out: Path, workers: int | None,
 
     pool = process_pool(min(workers or os.cpu_count() or 1, len(todo)))
     try:
-        futures = {pool.submit(run_point, p.text, _label(out, p)): p for p in todo}
-        for fut in as_completed(futures):
-            done(futures[fut], fut.result())
+        with terminate_as_interrupt():   # SIGTERM, like SIGINT, ends the workers too
+            futures = {pool.submit(run_point, p.text, _label(out, p)): p for p in todo}
+            for fut in as_completed(futures):
+                done(futures[fut], fut.result())
     except BaseException:
-        pool.shutdown(wait=False, cancel_futures=True)
+        end_workers(pool)
         raise
     pool.shutdown()
 
