@@ -43,6 +43,12 @@ from fem.case.parse import parse_case, read_case_text
 from fem.errors import CaseError, SolveError
 from fem.output_folder import check_writable
 from fem.results import atomic_write, write_json
+from fem.study.cluster import (
+    SCHEDULER_DEADLINE,
+    connect_client,
+    parse_scheduler,
+    probe_scheduler,
+)
 from fem.study.index import append_row, compact_index, read_index, refuse_link
 from fem.study.keys import Vary, get_key, parse_vary, set_key
 from fem.study.pool import (
@@ -183,16 +189,15 @@ def _run_local(todo: list[Point], out: Path, workers: int | None,
 
 
 def _run_dask(todo: list[Point], out: Path, address: str, tag: str,
-              done: Callable[[Point, dict[str, Any]], None]) -> None:
+              done: Callable[[Point, dict[str, Any]], None],
+              deadline: float = SCHEDULER_DEADLINE) -> None:
     try:
         from distributed import Client, as_completed
     except ImportError:
         raise CaseError("--scheduler", address, "needs Dask: pip install "
                                                 "'shearcheck[cluster]'") from None
-    try:
-        client = Client(address, timeout="20s")
-    except (OSError, TimeoutError) as exc:
-        raise CaseError("--scheduler", address, f"cannot reach the scheduler ({exc})") from None
+    probe_scheduler(address, deadline)        # a silent port or another server: exit 2
+    client = connect_client(Client, address, deadline)
     try:
         futures = {client.submit(run_point, p.text, _label(out, p), pure=False,
                                  key=f"shearcheck-{tag}-{p.id}"): p for p in todo}
@@ -261,9 +266,17 @@ def _identity(case_path: Path, text: str, varies: list[Vary], levels: int | None
 def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
               workers: int | None = None, scheduler: str | None = None,
               levels: int | None = None, quiet: bool = False,
-              warn: Callable[[str], None] | None = None) -> SweepReport:
-    """Run (or resume) a sweep into `out`; see the module docstring for the layout."""
+              warn: Callable[[str], None] | None = None,
+              scheduler_deadline: float = SCHEDULER_DEADLINE) -> SweepReport:
+    """Run (or resume) a sweep into `out`; see the module docstring for the layout.
+
+    `scheduler` (``--scheduler``) is validated first (`fem.study.cluster.parse_scheduler`);
+    ``""`` is refused, not taken for "run locally". Reaching it is given
+    `scheduler_deadline` seconds (to connect and be greeted, and again for the client).
+    """
     case_path, out = Path(case_path), Path(out)
+    if scheduler is not None:
+        scheduler = parse_scheduler(scheduler)
     text = read_case_text(case_path)
     base_case = parse_case(text, str(case_path))          # the base itself must be valid
     base = tomllib.loads(text)
@@ -298,7 +311,8 @@ def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
 
     try:
         if todo and scheduler:
-            _run_dask(todo, out, scheduler, ident["case_sha256"][:12], done)
+            _run_dask(todo, out, scheduler, ident["case_sha256"][:12], done,
+                      scheduler_deadline)
         elif todo:
             _run_local(todo, out, workers, done)
     finally:
