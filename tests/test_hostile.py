@@ -584,13 +584,14 @@ def test_real_dof_count_is_checked_after_meshing_before_assembly(monkeypatch, tm
     """An estimate beaten by the outline (simulated: the estimate says 1 dof) is caught on
     the real mesh: exit 2 naming mesh.max_dofs and the real count, and no solve starts."""
     import fem.case.parse
+    import fem.member.check  # noqa: F401 (imported before patching: binds the real names)
+    import fem.member.level
     import fem.member.mesh
-    import fem.member.solve
     from fem.cli import main
 
     monkeypatch.setattr(fem.member.mesh, "estimate_dofs", lambda case, size: 1)
     monkeypatch.setattr(fem.case.parse, "check_size", lambda case: None)
-    monkeypatch.setattr(fem.member.solve, "solve_member",
+    monkeypatch.setattr(fem.member.level, "solve_member",
                         lambda *a, **k: pytest.fail("assembly must not start"))
     case = tmp_path / "c.toml"
     case.write_text(good(size=10.0).replace("levels = 1", "levels = 1\nmax_dofs = 3457"),
@@ -636,3 +637,13 @@ def test_hand_statics_hold_at_any_scale(length, depth, size, cuts):
     res, _ = beam_hand_result(parse_case(text, "scale.toml"))
     for c in res.to_dict()["cuts"]:
         assert abs(c["V_hand"]) == pytest.approx(10000.0, rel=1e-9)
+
+
+def test_hole_radii_are_banded_for_shared_size_fields():
+    """Radii within RADIUS_BAND of a band's smallest share its field; others start a band."""
+    from fem.case.model import Hole
+    from fem.member.mesh import RADIUS_BAND, _hole_groups
+
+    holes = [Hole((0.0, 0.0), r) for r in (3.0, 3.5, 5.0, 2.5, 3.0 * RADIUS_BAND)]
+    assert _hole_groups(holes) == [[3, 0], [1, 4], [2]]   # 2.5-3.0, 3.5-3.75, 5.0
+    assert _hole_groups([]) == []

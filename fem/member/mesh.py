@@ -29,10 +29,10 @@ from fem.errors import SolveError
 from fem.gmsh_session import gmsh_session, set_background
 from fem.member.gmsh_model import build_member, name_boundaries
 
-__all__ = ["MemberMesh", "mesh_member", "SHARED_HOLE_FIELDS", "linear_mesh_dofs"]
+__all__ = ["MemberMesh", "mesh_member", "SHARED_HOLE_FIELDS", "RADIUS_BAND", "linear_mesh_dofs"]
 
-SHARED_HOLE_FIELDS = True   # one size field per hole radius (False: one per hole, the old
-                            # way, kept for bench/bench_holes.py's same-run baseline)
+SHARED_HOLE_FIELDS = True   # one size field per band of hole radii (False: one per hole, the
+                            # old way, kept for bench/bench_holes.py's same-run baseline)
 
 
 @dataclass
@@ -92,18 +92,18 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
     corners = [c.at for c in reentrant_corners(domain_polygon(g))]
     if corners:
         threshold(corners, None, size / 6, 0.0, 0.25 * depth)
-    # 24 elements round a hole at level 0, doubling with each level. Holes of one radius
-    # share one field (one Distance over all their curves): gmsh evaluates every field of
-    # the Min at every size query, so a field per hole made meshing grow with the square of
-    # the hole count (bench/bench_holes.py)
-    by_radius: dict[float | int, list[int]] = {}
-    for k, h in enumerate(g.holes):
-        by_radius.setdefault(h.radius if SHARED_HOLE_FIELDS else k, []).extend(
-            int(t) for t in gmsh.model.getEntitiesForPhysicalGroup(1, _phys_tag(1, f"hole-{k}")))
-    for key, curves in by_radius.items():
-        radius = key if SHARED_HOLE_FIELDS else g.holes[key].radius
-        threshold(None, curves, min(size / 2, 2 * math.pi * radius / 24 * scale),
-                  0.0, 1.5 * radius)
+    # 24 elements round a hole at level 0, doubling with each level. Holes of about one
+    # radius (within RADIUS_BAND) share one field - one Distance over all their curves, the
+    # fine size of the smallest, the reach of the largest: gmsh evaluates every field of the
+    # Min at every size query, so a field per hole made meshing grow with the square of the
+    # hole count (bench/bench_holes.py). Equal radii give exactly the mesh of a field each.
+    for group in _hole_groups(g.holes) if SHARED_HOLE_FIELDS else [[k] for k in
+                                                                   range(len(g.holes))]:
+        curves = [int(t) for k in group
+                  for t in gmsh.model.getEntitiesForPhysicalGroup(1, _phys_tag(1, f"hole-{k}"))]
+        rmin = min(g.holes[k].radius for k in group)
+        rmax = max(g.holes[k].radius for k in group)
+        threshold(None, curves, min(size / 2, 2 * math.pi * rmin / 24 * scale), 0.0, 1.5 * rmax)
     fillet_curves = [t for _, t in gmsh.model.getEntities(1)
                      if gmsh.model.getType(1, t) == "Circle" and not _is_hole(g, t)]
     if fillet_curves:
@@ -116,6 +116,21 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch],
     if background is not None:  # e.g. fem.member.adapt.size_field: one more field in the minimum
         fields.append(background())
     set_background(fields, size)
+
+
+RADIUS_BAND = 1.25   # holes whose radii lie within this ratio share one size field
+
+
+def _hole_groups(holes) -> list[list[int]]:
+    """Hole indices in groups of radii within RADIUS_BAND of the group's smallest."""
+    order = sorted(range(len(holes)), key=lambda k: holes[k].radius)
+    groups: list[list[int]] = []
+    for k in order:
+        if groups and holes[k].radius <= RADIUS_BAND * holes[groups[-1][0]].radius:
+            groups[-1].append(k)
+        else:
+            groups.append([k])
+    return groups
 
 
 def _is_hole(g, tag: int) -> bool:
