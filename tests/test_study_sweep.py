@@ -379,9 +379,9 @@ def test_sweep_workers_end_with_the_main_process(stub, tmp_path, sig):
            "geometry.length=100:250:8", "--out", str(tmp_path), "--workers", "2", "--quiet"]
     proc = subprocess.Popen(cmd, cwd=ROOT, start_new_session=True, stdout=subprocess.DEVNULL,
                             stderr=subprocess.DEVNULL)
+    workers: set[int] = set()
     try:
         deadline = time.monotonic() + 120
-        workers: set[int] = set()
         while time.monotonic() < deadline and proc.poll() is None:
             workers = _children(proc.pid)
             if len(workers) >= 2 and any(_children(w) == set() for w in workers):
@@ -399,5 +399,6 @@ def test_sweep_workers_end_with_the_main_process(stub, tmp_path, sig):
     finally:
         if proc.poll() is None:
             os.killpg(proc.pid, signal.SIGKILL)
-        for w in _children(proc.pid):
-            os.kill(w, signal.SIGKILL)
+        for w in workers | _children(proc.pid):   # a failed run must not leave orphans
+            if _alive(w):
+                os.kill(w, signal.SIGKILL)
