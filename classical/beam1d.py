@@ -141,32 +141,57 @@ def _node(nodes: np.ndarray, x: float) -> int:
     return int(np.argmin(np.abs(nodes - x)))
 
 
+RANK_TOL = 1e-9   # rigid-body restraint matrix (entries of order 1): rank-deficient below this
+
+
+def _restraint_rows(fixed: list[tuple[int, int]], xi: np.ndarray) -> np.ndarray:
+    """Rows of the rigid-body modes (u = a, v = b + c xi, rot = c) seen by each fixed dof,
+    in the member's own length unit (xi = (x - x_first) / span): scale-free."""
+    rows = {0: lambda i: (1.0, 0.0, 0.0), 1: lambda i: (0.0, 1.0, xi[i]),
+            2: lambda i: (0.0, 0.0, 1.0)}
+    return np.array([rows[k](i) for i, k in fixed], dtype=float).reshape(-1, 3)
+
+
 def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list[LineLoad],
                EA: float = 1.0, EI: float = 1.0, axis_y: float = 0.0,
                stations: list[float] | None = None) -> BeamModel:
-    """Reactions by the stiffness method; raise MechanismError for a mechanism.
+    """Reactions by statics (determinate) or the stiffness method; MechanismError for a
+    mechanism.
 
     Couples from forces applied off the axis: a force Fx at height y acts on the axis with
     the couple -(y - axis_y) Fx. Horizontal reactions act on the axis.
+
+    Everything is scale-free: lengths are measured in the span (xi = (x - x_first) / span),
+    so a member of 1e-6 or 1e6 length units, or translated far from the origin, gives the
+    same decisions. The mechanism test is the rank of the rigid-body restraint matrix
+    (`_restraint_rows`, entries of order 1); a determinate layout (three independent
+    restraints) takes its reactions from the three equilibrium equations alone; an
+    indeterminate one from the frame stiffness in span units, where only the ratio
+    EA span^2 / EI enters. `stations` are accepted for compatibility: section forces at any
+    station follow from the free body (`BeamModel.forces`) and need no node there (a node a
+    hair from another made the stiffness matrix ill-conditioned).
     """
+    del stations
     xs = {s.x for s in supports} | {p.x for p in points}
-    xs |= {v for ln in lines for v in (ln.x0, ln.x1)} | set(stations or [])
+    xs |= {v for ln in lines for v in (ln.x0, ln.x1)}
     nodes = np.array(sorted(xs))
+    span = float(nodes[-1] - nodes[0]) if len(nodes) > 1 else 0.0
     if len(nodes) > 1:  # stations a hair apart (round-off) are one node, not a 0-length element
-        span = nodes[-1] - nodes[0]
-        nodes = nodes[np.concatenate([[True], np.diff(nodes) > 1e-9 * max(span, 1e-300)])]
+        scale = max(span, 1e-300)
+        nodes = nodes[np.concatenate([[True], np.diff(nodes) > 1e-9 * scale])]
     n = len(nodes)
     if n < 2:
-        nodes = np.array([nodes[0], nodes[0] + 1.0])
+        unit = max(abs(float(nodes[0])), 1.0) if span == 0.0 else span
+        nodes = np.array([nodes[0], nodes[0] + unit])
         n = 2
-    K = np.zeros((3 * n, 3 * n))
-    f = np.zeros(3 * n)
+    Lr = float(nodes[-1] - nodes[0])
+    xi = (nodes - nodes[0]) / Lr
+    f = np.zeros(3 * n)   # nodal loads: forces F, couples F L (physical)
     g, w = np.polynomial.legendre.leggauss(6)
     for e in range(n - 1):
         x0, x1 = nodes[e], nodes[e + 1]
         L = x1 - x0
         idx = np.arange(3 * e, 3 * e + 6)
-        K[np.ix_(idx, idx)] += _frame_k(L, EA, EI)
         xq = 0.5 * L * g + 0.5 * (x0 + x1)
         s = (xq - x0) / L
         Nv = np.array([1 - 3 * s**2 + 2 * s**3, L * (s - 2 * s**2 + s**3),
@@ -180,34 +205,59 @@ def solve_beam(supports: list[BeamSupport], points: list[PointLoad], lines: list
     for p in points:
         i = _node(nodes, p.x)
         f[3 * i:3 * i + 3] += [p.Fx, p.Fy, p.C - (p.y - axis_y) * p.Fx]
-    fixed = []
-    for s in supports:
-        i = _node(nodes, s.x)
-        fixed += [3 * i + k for k, name in enumerate(("u", "v", "rot")) if name in s.restrains]
+    fixed: list[tuple[int, int]] = []
+    for sup in supports:
+        i = _node(nodes, sup.x)
+        fixed += [(i, k) for k, name in enumerate(("u", "v", "rot")) if name in sup.restrains]
     fixed = sorted(set(fixed))
-    free = np.setdiff1d(np.arange(3 * n), fixed)
-    Kff = K[np.ix_(free, free)]
-    if np.linalg.matrix_rank(Kff) < len(free):
+    A = _restraint_rows(fixed, xi)
+    sv = np.linalg.svd(A, compute_uv=False) if len(fixed) else np.zeros(0)
+    if len(sv) < 3 or sv[2] <= RANK_TOL * sv[0]:
         raise MechanismError("the supports, idealised as beam supports, form a mechanism")
-    u = np.zeros(3 * n)
-    u[free] = np.linalg.solve(Kff, f[free])
-    r = K @ u - f
+    # S: dofs in span units (u, v divided by Lr; rotations as they are)
+    S = np.tile([Lr, Lr, 1.0], n)
+    fs = S * f    # work-conjugate loads of the scaled dofs: Lr F, Lr F, couples
+    if len(fixed) == 3:
+        r_s = np.linalg.solve(A.T, -np.array([fs[0::3].sum(), fs[1::3].sum(),
+                                               (xi * fs[1::3]).sum() + fs[2::3].sum()]))
+        r = np.zeros(3 * n)
+        for (i, k), val in zip(fixed, r_s, strict=True):
+            r[3 * i + k] = val / S[3 * i + k]
+    else:
+        r = _indeterminate(nodes, xi, fixed, fs, S, EA * Lr**2 / EI)
     reactions = []
-    for s in supports:
-        i = _node(nodes, s.x)
-        mine = [k for k, name in enumerate(("u", "v", "rot")) if name in s.restrains]
+    for sup in supports:
+        i = _node(nodes, sup.x)
+        mine = [k for k, name in enumerate(("u", "v", "rot")) if name in sup.restrains]
         vals = [0.0, 0.0, 0.0]
         for k in mine:
             vals[k] = float(r[3 * i + k])
         reactions.append(tuple(vals))
     # several supports at one node share its reaction: give it to the first
     seen: set[int] = set()
-    for j, s in enumerate(supports):
-        i = _node(nodes, s.x)
+    for j, sup in enumerate(supports):
+        i = _node(nodes, sup.x)
         if i in seen:
             reactions[j] = (0.0, 0.0, 0.0)
         seen.add(i)
-    determinate = len(fixed) == 3
     return BeamModel(supports=tuple(supports), reactions=tuple(reactions),
                      points=tuple(points), lines=tuple(lines), axis_y=axis_y,
-                     determinate=determinate)
+                     determinate=len(fixed) == 3)
+
+
+def _indeterminate(nodes: np.ndarray, xi: np.ndarray, fixed: list[tuple[int, int]],
+                   fs: np.ndarray, S: np.ndarray, alpha: float) -> np.ndarray:
+    """Physical reactions of an indeterminate layout: the frame stiffness in span units
+    (EI = 1, EA = alpha = EA span^2 / EI), symmetric diagonal scaling before the solve."""
+    n = len(nodes)
+    K = np.zeros((3 * n, 3 * n))
+    for e in range(n - 1):
+        idx = np.arange(3 * e, 3 * e + 6)
+        K[np.ix_(idx, idx)] += _frame_k(xi[e + 1] - xi[e], alpha, 1.0)
+    fixed_dofs = [3 * i + k for i, k in fixed]
+    free = np.setdiff1d(np.arange(3 * n), fixed_dofs)
+    Kff = K[np.ix_(free, free)]
+    d = 1.0 / np.sqrt(np.diag(Kff))
+    u = np.zeros(3 * n)
+    u[free] = d * np.linalg.solve(d[:, None] * Kff * d[None, :], d * fs[free])
+    return (K @ u - fs) / S

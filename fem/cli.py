@@ -18,6 +18,7 @@ from fem.errors import CaseError, SolveError
 __all__ = ["main", "DEMO_CASE"]
 
 DEMO_CASE = "stub-bracket.toml"
+_LOGGED: set[int] = set()   # ids of exceptions whose traceback went to shearcheck-error.log
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -171,7 +172,18 @@ def _sweep(args: argparse.Namespace) -> int:
                   f"{varies[0].key} = {th:.4g}" if th is not None else
                   f"max ratio never crosses 1 + tolerance = {s['level']:g} in this range")
         print(f"outputs: {out} (sweep.csv, summary.json, ratio.png)")
-    return 0
+    return _sweep_exit(rep.summary)
+
+
+def _sweep_exit(s: dict) -> int:
+    """0 when every point ran; 1 when some failed, 2 when all did (the input is bad); the
+    count goes to stderr even with --quiet."""
+    if not s["failed"]:
+        return 0
+    first = s["failures"][0]["message"] if s["failures"] else ""
+    print(f"shearcheck: {s['failed']} of {s['points']} sweep points failed (see summary.json)"
+          + (f"; the first: {first}" if first else ""), file=sys.stderr)
+    return 2 if s["failed"] == s["points"] else 1
 
 
 def _load(case_path: Path, out: Path | None, suffix: str = ""):
@@ -190,13 +202,26 @@ def _load(case_path: Path, out: Path | None, suffix: str = ""):
     if out.exists() and not out.is_dir():
         raise CaseError(str(out), "--out", "exists and is not a folder; give a folder for the "
                                            "outputs")
+    from fem.output_folder import check_writable
+
+    check_writable(out)   # before the solve: a folder we cannot write is found at once
     return case, out
 
 
 def _log_internal(out: Path) -> None:
+    """The traceback to out/shearcheck-error.log, never through a planted symbolic link;
+    `_LOGGED` remembers which exceptions have their log (for the one-line message)."""
+    import os
+
+    exc = sys.exc_info()[1]
     try:
         out.mkdir(parents=True, exist_ok=True)
-        (out / "shearcheck-error.log").write_text(traceback.format_exc(), encoding="utf-8")
+        fd = os.open(out / "shearcheck-error.log", os.O_WRONLY | os.O_CREAT | os.O_TRUNC
+                     | getattr(os, "O_NOFOLLOW", 0), 0o644)
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(traceback.format_exc())
+        if exc is not None:
+            _LOGGED.add(id(exc))
     except OSError:
         pass
 
@@ -227,8 +252,11 @@ def main(argv: list[str] | None = None) -> int:
         print("shearcheck: interrupted; earlier results are untouched", file=sys.stderr)
         return 130
     except Exception as exc:
-        print(f"shearcheck: internal error ({exc.__class__.__name__}: {exc}); the traceback "
-              "is in shearcheck-error.log in the output folder", file=sys.stderr)
+        where = ("the traceback is in shearcheck-error.log in the output folder"
+                 if id(exc) in _LOGGED else
+                 "no log could be written (the output folder is not writable)")
+        print(f"shearcheck: internal error ({exc.__class__.__name__}: {exc}); {where}",
+              file=sys.stderr)
         return 1
     return 2
 

@@ -101,6 +101,9 @@ def test_kill_while_writing_keeps_the_earlier_result(tmp_path: Path):
         if p.returncode == -signal.SIGKILL and left:
             mid_write = True  # files still staged: results.json, moved last, is the old one
             assert state == "old"
+        from fem.output_folder import verify_outputs
+
+        assert verify_outputs(out) == []   # the manifest vouches for one whole set
         old = (out / "results.json").read_bytes()
         if mid_write:
             break  # caught while writing (the usual case: writing takes seconds)
@@ -143,10 +146,12 @@ def test_figure_failure_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
     assert sorted(p.name for p in out.iterdir()) == before
 
 
-def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypatch):
-    """results.json is moved last: a crash while moving the other files leaves the old one
-    (and the stage is cleaned up)."""
+def test_failed_rename_midway_is_finished_as_one_set(tmp_path: Path, monkeypatch):
+    """A rename that fails midway through the commit (after the journal): the folder is
+    never trusted as a mix - the next use finishes the commit from the stage, and the
+    manifest then vouches for the whole new set."""
     import fem.output_folder
+    from fem.output_folder import JOURNAL, verify_outputs
     from fem.results import write_json
 
     out = tmp_path / "out"
@@ -157,7 +162,7 @@ def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypat
     moved: list[str] = []
 
     def replace(src, dst):
-        if Path(dst).parent == out:  # a move from the stage into the output folder
+        if Path(dst).parent == out and not Path(dst).name.startswith("."):
             if Path(dst).name == "results.json":
                 raise OSError("disk full")
             moved.append(Path(dst).name)
@@ -170,8 +175,81 @@ def test_failed_rename_midway_keeps_the_earlier_result(tmp_path: Path, monkeypat
             for name in ("z-figure.png", "a-figure.png", "report.html"):
                 (stage / name).write_bytes(b"new")
     assert sorted(moved) == ["a-figure.png", "report.html", "z-figure.png"]
-    assert (out / "results.json").read_bytes() == old
-    assert not list(out.glob(".staging-*"))
+    assert (out / "results.json").read_bytes() == old       # results.json moves last
+    assert (out / JOURNAL).exists()
+    monkeypatch.setattr(fem.output_folder.os, "replace", real_replace)
+    assert verify_outputs(out) == [] and _only_old_or_new(out, old) == "new"
+    assert not (out / JOURNAL).exists() and not list(out.glob(".staging-*"))
+
+
+def test_kill_during_the_final_moves_leaves_old_or_new_set(tmp_path: Path, monkeypatch):
+    """A kill (simulated: KeyboardInterrupt at each possible move in turn) during the final
+    moves of a run with a report, over an earlier run with a report: after recovery the
+    folder is exactly one set - the new one - with no file of the killed-over run left
+    beside it, and its manifest matches every file."""
+    import fem.output_folder
+    from fem.output_folder import MANIFEST, recover, verify_outputs
+
+    real_replace = os.replace
+    for stop_at in range(1, 6):
+        out = tmp_path / f"out{stop_at}"
+        with fem.output_folder.staged_output(out) as stage:
+            for name in ("results.json", "report.html", "old-only.png"):
+                (stage / name).write_bytes(b"old " + name.encode())
+        calls = 0
+
+        def replace(src, dst, stop_at=stop_at, out=out):
+            nonlocal calls
+            if Path(dst).parent == out and not Path(dst).name.startswith("."):
+                calls += 1
+                if calls == stop_at:
+                    raise KeyboardInterrupt   # the kill lands here
+            real_replace(src, dst)
+
+        monkeypatch.setattr(fem.output_folder.os, "replace", replace)
+        try:
+            with fem.output_folder.staged_output(out) as stage:
+                for name in ("results.json", "report.html", "new-only.png"):
+                    (stage / name).write_bytes(b"new " + name.encode())
+        except KeyboardInterrupt:
+            pass
+        monkeypatch.setattr(fem.output_folder.os, "replace", real_replace)
+        recover(out)
+        assert verify_outputs(out) == [], stop_at
+        names = sorted(p.name for p in out.iterdir())
+        assert names == sorted(["results.json", "report.html", "new-only.png", MANIFEST])
+        assert (out / "report.html").read_bytes() == b"new report.html"
+
+
+def test_manifest_names_a_file_changed_behind_its_back(tmp_path: Path):
+    from fem.output_folder import verify_outputs
+
+    out = tmp_path / "out"
+    _earlier(out)
+    assert verify_outputs(out) == []
+    (out / "results.json").write_text("{}", encoding="utf-8")
+    assert verify_outputs(out) == ["results.json is not the file of this set (its hash "
+                                   "differs)"]
+
+
+def test_unwritable_output_folder_is_refused_before_the_solve(tmp_path: Path, monkeypatch,
+                                                             capsys):
+    import fem.api
+    from fem.cli import main
+
+    case = tmp_path / "c.toml"
+    case.write_text(CASE.format(name="c", force=-1000.0, size=50.0, levels=1),
+                    encoding="utf-8")
+    monkeypatch.setattr(fem.api, "check", lambda *a, **k: pytest.fail("no solve"))
+    if os.geteuid() == 0:          # root writes anywhere a mode allows: use /proc instead
+        out = Path("/proc/self/shearcheck-out")
+    else:
+        out = tmp_path / "ro"
+        out.mkdir()
+        out.chmod(0o500)
+    assert main(["run", str(case), "--out", str(out), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert "--out" in err and "cannot write in the output folder" in err
 
 
 def test_failed_write_leaves_no_partial_file(tmp_path: Path, monkeypatch):

@@ -89,3 +89,41 @@ def test_station_a_hair_from_a_support_is_merged():
                    stations=[1e-10, 150.0, 300.1234567891 - 1e-10])
     assert m.reactions[0][1] == pytest.approx(10.0, rel=1e-9)
     assert m.reactions[0][2] == pytest.approx(10.0 * 300.1234567891, rel=1e-9)
+
+
+@pytest.mark.parametrize("scale", [1e-9, 1e-3, 1.0, 1e5, 1e12])
+@pytest.mark.parametrize("offset", [0.0, 1e6])
+def test_statics_is_scale_free(scale, offset):
+    """A clamped cantilever and a propped one, drawn at any size and far from the origin,
+    with a station and a load a hair from the clamp: same reactions (relative) as at unit
+    size. Statics of the free body (cantilever: R = -F, C = -F a; propped cantilever, load
+    at mid-span: R_prop = 5F/16, Gere & Goodno, Mechanics of Materials, 7th ed., table G-2,
+    from memory) - the rank test once called these mechanisms from 1e5 up."""
+    L = 300.0 * scale
+    x0 = offset * L
+    clamp = BeamSupport(x0, frozenset({"u", "v", "rot"}))
+    loads = [PointLoad(x0 + L, Fy=-1000.0), PointLoad(x0 + 1e-6 * L, Fy=-1.0)]
+    m = solve_beam([clamp], loads, [], EA=1e3 * scale**2, EI=scale**4,
+                   stations=[x0 + 4e-7 * L, x0 + 0.5 * L])
+    Rx, Ry, C = m.reactions[0]
+    assert m.determinate and Ry == pytest.approx(1001.0, rel=1e-9)
+    assert C == pytest.approx(1000.0 * L + 1e-6 * L, rel=1e-9)
+    prop = solve_beam([BeamSupport(x0, frozenset({"u", "v", "rot"})),
+                       BeamSupport(x0 + L, frozenset({"v"}))],
+                      [PointLoad(x0 + 0.5 * L, Fy=-16.0)], [], EA=1e6 * scale**2,
+                      EI=scale**4)
+    assert not prop.determinate
+    assert prop.reactions[1][1] == pytest.approx(5.0, rel=1e-6)
+
+
+def test_mechanism_is_still_a_mechanism_at_any_scale():
+    from classical.beam1d import MechanismError
+
+    for scale in (1e-9, 1.0, 1e9):
+        with pytest.raises(MechanismError):
+            solve_beam([BeamSupport(0.0, frozenset({"u", "v"}))],
+                       [PointLoad(300.0 * scale, Fy=-1.0)], [])
+        with pytest.raises(MechanismError):   # two rollers: nothing stops sliding in x
+            solve_beam([BeamSupport(0.0, frozenset({"v"})),
+                        BeamSupport(300.0 * scale, frozenset({"v"}))],
+                       [PointLoad(150.0 * scale, Fy=-1.0)], [])

@@ -362,7 +362,8 @@ def test_default_output_folder_is_out_slash_name_and_nothing_leaks(tmp_path: Pat
     (tmp_path / "c.toml").write_text(good(), encoding="utf-8")
     assert main(["run", "c.toml", "--no-report", "--quiet"]) == 0
     written = sorted(str(p.relative_to(tmp_path)) for p in tmp_path.rglob("*") if p.is_file())
-    assert written == ["c.toml", os.path.join("out", "good", "results.json")]
+    assert written == ["c.toml", os.path.join("out", "good", "manifest.json"),
+                       os.path.join("out", "good", "results.json")]
 
 
 def test_case_file_is_data_not_code(tmp_path: Path, monkeypatch):
@@ -412,3 +413,244 @@ def test_key_lines_follow_tables_arrays_and_multiline_values():
     assert lines["points"] == 2 and lines["geometry.b"] == 7
     assert lines["geometry.holes.0.c"] == 9 and lines["geometry.holes.1.c"] == 11
     assert lines["mesh.size"] == 13 and "0.0, 1.0" not in "".join(lines)
+
+
+# --- second round: stated limits, each just under and just over --------------------------------
+
+def _rect_with_bottom_points(n: int) -> str:
+    """The 300 x 100 rectangle drawn with n points, the extra ones along the bottom edge."""
+    bottom = [(300.0 * i / (n - 3), 0.0) for i in range(n - 2)]
+    pts = bottom + [(300.0, 100.0), (0.0, 100.0)]
+    return ('[geometry]\nshape = "polygon"\npoints = ['
+            + ", ".join(f"[{x!r}, {y!r}]" for x, y in pts) + "]\n")
+
+
+def _holes(n: int) -> str:
+    return "".join(f"[[geometry.holes]]\ncenter = [{12.0 + 11.0 * (i % 25)}, "
+                   f"{20.0 + 20.0 * (i // 25)}]\nradius = 1.0\n" for i in range(n))
+
+
+@pytest.mark.parametrize("key, under, over", [
+    ("title", lambda n: good(title="T" * n), 200),
+    ("check.cuts", lambda n: good() + "[check]\ncuts = ["
+     + ", ".join(f"{5.0 + 5.0 * i}" for i in range(n)) + "]\n", 50),
+    ("geometry.holes", lambda n: good(extra=_holes(n)), 100),
+    ("geometry.points", lambda n: good(
+        support='from = [0.0, 0.0]\nto = [0.0, 100.0]\nfix = "xy"').replace(
+        '[geometry]\nshape = "rectangle"\nlength = 300.0\ndepth = 100.0\n',
+        _rect_with_bottom_points(n)).replace(
+        'edge = "right"', 'from = [300.0, 0.0]\nto = [300.0, 100.0]'), 2000),
+])
+def test_stated_limits_just_under_and_just_over(key, under, over):
+    """At the limit the case is read; one more is refused naming the key and the limit."""
+    parse_case(under(over), "limit.toml")
+    with pytest.raises(CaseError) as err:
+        parse_case(under(over + 1), "limit.toml")
+    assert err.value.key == key and f"at most {over:,}" in str(err.value)
+
+
+def test_section_polygon_points_are_limited_with_their_holes():
+    from fem.case.limits import MAX_POINTS
+
+    ring = [[float(i), 0.0] for i in range(MAX_POINTS - 2)] + [[0.0, 5.0]]
+    ok = SECTION.format(geo=f'shape = "polygon"\npoints = {ring}', size=100.0)
+    with pytest.raises(CaseError) as err:
+        parse_case(ok.replace("points = ", "holes = [[[1.0, 1.0], [2.0, 1.0], [2.0, 2.0]]]\n"
+                                           "points = "), "sec.toml")
+    assert err.value.key == "geometry.holes" and f"at most {MAX_POINTS:,}" in str(err.value)
+
+
+def test_case_file_is_read_with_a_cap(tmp_path: Path):
+    """At the cap a (padded) case is read; one byte more, or /dev/zero, is refused quickly."""
+    import time
+
+    from fem.case.limits import MAX_FILE_BYTES
+    from fem.case.parse import load_case
+
+    text = good().encode("utf-8")
+    at = tmp_path / "at.toml"
+    at.write_bytes(text + b"#" * (MAX_FILE_BYTES - len(text) - 1) + b"\n")
+    assert at.stat().st_size == MAX_FILE_BYTES and load_case(at).name == "good"
+    over = tmp_path / "over.toml"
+    over.write_bytes(text + b"#" * (MAX_FILE_BYTES - len(text)) + b"\n")
+    with pytest.raises(CaseError, match="larger than 4 MB"):
+        load_case(over)
+    if os.path.exists("/dev/zero"):
+        t0 = time.perf_counter()
+        with pytest.raises(CaseError, match="larger than 4 MB"):
+            load_case("/dev/zero")
+        assert time.perf_counter() - t0 < 10
+
+
+def test_byte_order_mark_is_accepted(tmp_path: Path):
+    from fem.case.parse import load_case
+
+    p = tmp_path / "bom.toml"
+    p.write_bytes(b"\xef\xbb\xbf" + good().encode("utf-8"))
+    assert load_case(p).name == "good"
+    assert parse_case("\ufeff" + good(), "bom.toml").name == "good"
+
+
+def test_nesting_just_under_the_limit_reaches_the_key_check():
+    """20 levels is read as TOML (and refused as an unknown key); 21 is refused as nesting,
+    and 5000 never reaches the recursive parser."""
+    from fem.case.limits import MAX_NESTING
+
+    def nested(n: int) -> str:
+        return good() + "[extra]\nx = " + "[" * n + "]" * n + "\n"
+
+    with pytest.raises(CaseError, match="unknown key"):
+        parse_case(nested(MAX_NESTING), "n.toml")
+    for n in (MAX_NESTING + 1, 5000):
+        with pytest.raises(CaseError, match="nested more than"):
+            parse_case(nested(n), "n.toml")
+
+
+def test_load_partly_on_a_support_is_still_allowed():
+    """Only a load wholly on a stretch fixed in its directions is refused: one that reaches
+    past the clamp, or pushes along a direction the support leaves free, is a load."""
+    parse_case(good(support='from = [0.0, 0.0]\nto = [0.0, 50.0]\nfix = "xy"').replace(
+        'edge = "right"', 'edge = "left"'), "part.toml")
+    with pytest.raises(CaseError, match="lies wholly on a support fixed in y"):
+        parse_case(good().replace('edge = "right"', 'from = [0.0, 20.0]\nto = [0.0, 60.0]'),
+                   "on.toml")
+
+
+def test_error_log_is_never_written_through_a_planted_link(tmp_path: Path, monkeypatch,
+                                                            capsys):
+    """A symbolic link named shearcheck-error.log in the output folder is not followed: the
+    file it points at keeps its content and the message says no log was written."""
+    import fem.api
+    from fem.cli import main
+
+    case = tmp_path / "good.toml"
+    case.write_text(good(), encoding="utf-8")
+    out = tmp_path / "out"
+    out.mkdir()
+    victim = tmp_path / "victim.txt"
+    victim.write_text("precious", encoding="utf-8")
+    (out / "shearcheck-error.log").symlink_to(victim)
+    monkeypatch.setattr(fem.api, "check", lambda *a, **k: 1 / 0)
+    assert main(["run", str(case), "--out", str(out)]) == 1
+    assert victim.read_text(encoding="utf-8") == "precious"
+    assert "no log could be written" in capsys.readouterr().err
+
+
+# --- second round: the guard on the real model ------------------------------------------------
+
+def _arched(n: int, size: float) -> str:
+    """A 300 mm member whose top is an arch drawn with n points (outline detail)."""
+    import math
+
+    top = [(300.0 - 300.0 * i / (n - 1), 100.0 + 40.0 * math.sin(math.pi * i / (n - 1)))
+           for i in range(n)]
+    pts = [(0.0, 0.0), (300.0, 0.0)] + top
+    return good(size=size, support='from = [0.0, 0.0]\nto = [0.0, 100.0]\nfix = "xy"').replace(
+        '[geometry]\nshape = "rectangle"\nlength = 300.0\ndepth = 100.0\n',
+        '[geometry]\nshape = "polygon"\npoints = ['
+        + ", ".join(f"[{x!r}, {y!r}]" for x, y in pts) + "]\n").replace(
+        'edge = "right"', 'from = [300.0, 0.0]\nto = [300.0, 100.0]')
+
+
+@pytest.mark.parametrize("n, size", [(200, 50.0), (1998, 50.0), (1998, 10.0)])
+def test_dof_estimate_counts_outline_detail(n, size):
+    """Many short outline segments (once estimated at 0.02 of the real count): within 1.5."""
+    from fem.case.sizing import estimate_dofs
+    from fem.member.mesh import mesh_member
+
+    case = parse_case(_arched(n, size), "arch.toml")
+    m = mesh_member(case).finder_mesh
+    real = 2 * (m.nvertices + m.facets.shape[1])
+    assert 1 / 1.5 < estimate_dofs(case, size) / real < 1.5
+
+
+def test_section_dof_estimate_counts_polygon_points():
+    import math
+
+    from fem.case.sizing import estimate_dofs
+    from fem.section.mesh import mesh_section, section_shape
+
+    ring = [[round(50 * math.cos(2 * math.pi * i / 1998), 9),
+             round(50 * math.sin(2 * math.pi * i / 1998), 9)] for i in range(1998)]
+    case = parse_case(SECTION.format(geo=f'shape = "polygon"\npoints = {ring}', size=20.0),
+                      "sec.toml")
+    g = case.geometry
+    real = mesh_section(section_shape(g.shape, **g.params), 20.0, 2).mesh.doflocs.shape[1]
+    assert 1 / 1.5 < estimate_dofs(case, 20.0) / real < 1.5
+
+
+def test_real_dof_count_is_checked_after_meshing_before_assembly(monkeypatch, tmp_path,
+                                                                 capsys):
+    """An estimate beaten by the outline (simulated: the estimate says 1 dof) is caught on
+    the real mesh: exit 2 naming mesh.max_dofs and the real count, and no solve starts."""
+    import fem.case.parse
+    import fem.member.check  # noqa: F401 (imported before patching: binds the real names)
+    import fem.member.level
+    import fem.member.mesh
+    from fem.cli import main
+
+    monkeypatch.setattr(fem.member.mesh, "estimate_dofs", lambda case, size: 1)
+    monkeypatch.setattr(fem.case.parse, "check_size", lambda case: None)
+    monkeypatch.setattr(fem.member.level, "solve_member",
+                        lambda *a, **k: pytest.fail("assembly must not start"))
+    counted = []
+    real_check = fem.member.mesh.check_real_dofs
+    monkeypatch.setattr(fem.member.mesh, "check_real_dofs",
+                        lambda case, dofs, size: counted.append(dofs))
+    fem.member.mesh.mesh_member(parse_case(good(size=10.0), "c.toml"))
+    monkeypatch.setattr(fem.member.mesh, "check_real_dofs", real_check)
+    (n,) = counted   # the real count of this mesh
+    case = tmp_path / "c.toml"
+    case.write_text(good(size=10.0).replace("levels = 1", f"levels = 1\nmax_dofs = {n - 1}"),
+                    encoding="utf-8")
+    assert main(["run", str(case), "--out", str(tmp_path / "o"), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert "mesh.max_dofs" in err and f"has {n:,} dofs" in err and f"{n - 1:,}" in err
+    # at the limit the same mesh is accepted
+    case.write_text(good(size=10.0).replace("levels = 1", f"levels = 1\nmax_dofs = {n}"),
+                    encoding="utf-8")
+    parsed = parse_case(case.read_text(encoding="utf-8"), "c.toml")
+    assert fem.member.mesh.mesh_member(parsed).finder_mesh.nvertices > 0
+
+
+def test_holes_of_one_radius_share_a_size_field_and_the_mesh_is_unchanged(monkeypatch):
+    """One Distance field over all holes of a radius gives the mesh one field per hole gave
+    (the minimum of equal thresholds is the threshold of the minimum distance)."""
+    import fem.member.mesh
+
+    extra = "".join(f"[[geometry.holes]]\ncenter = [{x}, 50.0]\nradius = 8.0\n"
+                    for x in (80.0, 150.0, 220.0))
+    case = parse_case(good(extra=extra, size=20.0), "h.toml")
+    shared = fem.member.mesh.mesh_member(case).mesh
+    monkeypatch.setattr(fem.member.mesh, "SHARED_HOLE_FIELDS", False)
+    apart = fem.member.mesh.mesh_member(case).mesh
+    assert shared.p.shape == apart.p.shape and shared.t.shape == apart.t.shape
+
+
+# --- second round: scale ----------------------------------------------------------------------
+
+@pytest.mark.parametrize("length, depth, size, cuts", [
+    (60000.0, 3000.0, 1000.0, "[1.0, 30000.0]"),     # a 60 m girder, a cut 1 mm from the clamp
+    (300.0, 100.0, 50.0, "[0.0004, 150.0]"),         # a cut 0.0004 from the clamp
+    (3e4, 1e4, 5e3, "[1.5e4]"),                      # the stub scaled by 100
+])
+def test_hand_statics_hold_at_any_scale(length, depth, size, cuts):
+    """Once refused as 'supports cannot carry the loads by statics': V at every cut is the
+    tip load (cantilever statics, common practice)."""
+    from fem.member.hand_only import beam_hand_result
+
+    text = good(size=size).replace("length = 300.0", f"length = {length}").replace(
+        "depth = 100.0", f"depth = {depth}") + f"[check]\ncuts = {cuts}\n"
+    res, _ = beam_hand_result(parse_case(text, "scale.toml"))
+    for c in res.to_dict()["cuts"]:
+        assert abs(c["V_hand"]) == pytest.approx(10000.0, rel=1e-9)
+
+
+def test_hole_radii_are_banded_for_shared_size_fields():
+    """Radii within RADIUS_BAND of a band's smallest share its field; others start a band."""
+    from fem.case.model import Hole
+    from fem.member.mesh import RADIUS_BAND, _hole_groups
+
+    holes = [Hole((0.0, 0.0), r) for r in (3.0, 3.5, 5.0, 2.5, 3.0 * RADIUS_BAND)]
+    assert _hole_groups(holes) == [[3, 0], [1, 4], [2]]   # 2.5-3.0, 3.5-3.75, 5.0
+    assert _hole_groups([]) == []

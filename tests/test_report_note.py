@@ -109,7 +109,7 @@ def test_output_folder_holds_every_file(run):
                 "ratio-along-member.png", "profiles.png", "mesh.png"}
     expected |= {f"profile-{k:02d}.png" for k in range(1, n + 1)}
     assert {f.name for f in files} == expected
-    assert {p.name for p in out.iterdir()} == expected
+    assert {p.name for p in out.iterdir()} == expected | {"manifest.json"}  # the set's list
     assert all((out / name).stat().st_size > 0 for name in expected)
     assert [p.name for p in res.figures] == [f.name for f in files if f.suffix == ".png"]
     assert all(p.parent == out for p in res.figures)
@@ -275,7 +275,8 @@ def test_no_report_writes_results_json_only(run, tmp_path):
     res, _, _ = run
     files = write_outputs(res, tmp_path / "bare", report=False)
     assert [f.name for f in files] == ["results.json"]
-    assert [p.name for p in (tmp_path / "bare").iterdir()] == ["results.json"]
+    assert sorted(p.name for p in (tmp_path / "bare").iterdir()) == ["manifest.json",
+                                                                     "results.json"]
 
 
 def test_notebook_methods_draw_and_write(run, tmp_path):

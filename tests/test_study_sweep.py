@@ -246,3 +246,159 @@ def test_cli_sweep_bad_key_exits_2(stub, tmp_path, capsys):
                  str(tmp_path)]) == 2
     err = capsys.readouterr().err
     assert "geometry.lenght" in err and len(err.strip().splitlines()) == 1
+
+
+# --------------------------------------------------------------------------- second round
+
+FAILING = "geometry.length=-2:-1:3"   # every point is refused at parse time: no mesh, fast
+
+
+def test_integer_written_keys_vary_as_floats():
+    """`length = 300` is a length written without a decimal point: it takes 200.5; keys
+    the format reads as whole numbers (mesh.levels, loads.N.hole) still refuse fractions."""
+    from fem.study.keys import is_integer_key
+
+    data = tomllib.loads(STUB.replace("length = 300.0", "length = 300"))
+    assert set_key(data, "geometry.length", 200.5)["geometry"]["length"] == 200.5
+    assert set_key(data, "geometry.length", 200.0)["geometry"]["length"] == 200
+    assert is_integer_key("loads.3.hole") and not is_integer_key("loads.3.force.1")
+    with pytest.raises(CaseError, match="whole numbers"):
+        set_key(data, "mesh.levels", 2.5)
+
+
+def test_sweep_size_limit_just_under_and_over():
+    """One --vary of MAX_SWEEP_POINTS values is taken, one more refused before any value is
+    made; a product over the limit is refused before any point is built."""
+    from fem.case.limits import MAX_SWEEP_POINTS
+    from fem.study.sweep import check_sweep_size
+
+    assert len(parse_vary(f"geometry.length=1:2:{MAX_SWEEP_POINTS}").values) == MAX_SWEEP_POINTS
+    with pytest.raises(CaseError, match="above the limit of 10,000"):
+        parse_vary(f"geometry.length=1:2:{MAX_SWEEP_POINTS + 1}")
+    with pytest.raises(CaseError, match="above the limit"):
+        parse_vary("geometry.length=1:2:1000000000")
+    a, b = parse_vary("geometry.length=1:2:100"), parse_vary("geometry.depth=1:2:100")
+    check_sweep_size([a, b])
+    with pytest.raises(CaseError, match=r"100 x 101 = 10,100 points"):
+        check_sweep_size([a, parse_vary("geometry.depth=1:2:101")])
+
+
+def test_cli_sweep_refuses_huge_products_fast(stub, tmp_path, capsys):
+    import time
+
+    from fem.cli import main
+
+    t0 = time.perf_counter()
+    assert main(["sweep", str(stub), "--vary", "geometry.length=1:2:10000", "--vary",
+                 "geometry.depth=1:2:10000", "--out", str(tmp_path / "s")]) == 2
+    assert time.perf_counter() - t0 < 10
+    assert "100,000,000 points" in capsys.readouterr().err
+    assert not (tmp_path / "s").exists()
+
+
+def test_cli_sweep_out_that_is_a_file_is_bad_input(stub, tmp_path, capsys):
+    from fem.cli import main
+
+    f = tmp_path / "f"
+    f.write_text("keep me", encoding="utf-8")
+    assert main(["sweep", str(stub), "--vary", FAILING, "--out", str(f)]) == 2
+    assert "not a folder" in capsys.readouterr().err and f.read_text() == "keep me"
+
+
+def test_cli_sweep_with_failed_points_exits_nonzero_with_a_count(stub, tmp_path, capsys):
+    """Every point failed: exit 2 and the count on stderr (also with --quiet); some failed:
+    exit 1 (the `local` sweep's summary has one failed point of six)."""
+    from fem.cli import _sweep_exit, main
+
+    assert main(["sweep", str(stub), "--vary", FAILING, "--out", str(tmp_path / "s"),
+                 "--workers", "1", "--quiet"]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "3 of 3 sweep points failed" in err[0]
+    assert "geometry.length" in err[0]
+    assert _sweep_exit({"failed": 1, "points": 6, "failures": [{"message": "m"}]}) == 1
+    assert _sweep_exit({"failed": 0, "points": 6, "failures": []}) == 0
+
+
+def test_damaged_index_and_missing_point_folder_run_again(stub, tmp_path):
+    """A `{}` line, a line without status, a non-UTF-8 byte and a deleted point folder: each
+    point concerned runs again, with one warning, and the index ends with each point once."""
+    import shutil
+
+    run_sweep(stub, [parse_vary(FAILING)], tmp_path, workers=1, quiet=True)
+    index = tmp_path / "index.jsonl"
+    lines = index.read_bytes().splitlines(keepends=True)
+    assert len(lines) == 3
+    no_status = json.loads(lines[1])
+    del no_status["status"]
+    index.write_bytes(b"{}\n" + lines[0] + json.dumps(no_status).encode() + b"\n"
+                      + b'{"id": "p0002", "\xff"}\n')
+    rep = run_sweep(stub, [parse_vary(FAILING)], tmp_path, workers=1, quiet=True,
+                    warn=(warnings := []).append)
+    assert rep.ran == 2 and rep.skipped == 1
+    assert len(warnings) == 1 and "3 damaged or stale entries" in warnings[0]
+    shutil.rmtree(tmp_path / "points" / "p0000")
+    warnings.clear()
+    rep = run_sweep(stub, [parse_vary(FAILING)], tmp_path, workers=1, quiet=True,
+                    warn=warnings.append)
+    assert rep.ran == 1 and "point p0000" in warnings[0]
+    ids = sorted(json.loads(x)["id"] for x in index.read_text().splitlines())
+    assert ids == ["p0000", "p0001", "p0002"]
+
+
+def test_index_is_never_written_through_a_planted_link(stub, tmp_path):
+    from fem.cli import main
+
+    victim = tmp_path / "victim.txt"
+    victim.write_text("precious", encoding="utf-8")
+    out = tmp_path / "s"
+    out.mkdir()
+    (out / "index.jsonl").symlink_to(victim)
+    assert main(["sweep", str(stub), "--vary", FAILING, "--out", str(out), "--quiet"]) == 2
+    assert victim.read_text(encoding="utf-8") == "precious"
+
+
+def _children(pid: int) -> set[int]:
+    path = Path(f"/proc/{pid}/task/{pid}/children")
+    return {int(x) for x in path.read_text().split()} if path.exists() else set()
+
+
+def _alive(pid: int) -> bool:
+    try:
+        stat = Path(f"/proc/{pid}/stat").read_text()
+    except OSError:
+        return False
+    return stat.rsplit(")", 1)[1].split()[0] != "Z"
+
+
+@pytest.mark.skipif(not Path("/proc/self/task").exists(), reason="needs /proc")
+@pytest.mark.parametrize("sig", [signal.SIGTERM, signal.SIGINT, signal.SIGKILL])
+def test_sweep_workers_end_with_the_main_process(stub, tmp_path, sig):
+    """SIGTERM or SIGINT to the sweep's main process alone (not its group), or SIGKILL that
+    no handler sees: every worker process is gone within seconds."""
+    cmd = [sys.executable, "-m", "fem.cli", "sweep", str(stub), "--vary",
+           "geometry.length=100:250:8", "--out", str(tmp_path), "--workers", "2", "--quiet"]
+    proc = subprocess.Popen(cmd, cwd=ROOT, start_new_session=True, stdout=subprocess.DEVNULL,
+                            stderr=subprocess.DEVNULL)
+    workers: set[int] = set()
+    try:
+        deadline = time.monotonic() + 120
+        while time.monotonic() < deadline and proc.poll() is None:
+            workers = _children(proc.pid)
+            if len(workers) >= 2 and any(_children(w) == set() for w in workers):
+                time.sleep(1.0)        # let them start a point
+                workers = _children(proc.pid)
+                break
+            time.sleep(0.05)
+        assert proc.poll() is None and len(workers) >= 2
+        os.kill(proc.pid, sig)
+        proc.wait(timeout=60)
+        end = time.monotonic() + 20
+        while time.monotonic() < end and any(_alive(w) for w in workers):
+            time.sleep(0.1)
+        assert not any(_alive(w) for w in workers), sig
+    finally:
+        if proc.poll() is None:
+            os.killpg(proc.pid, signal.SIGKILL)
+        for w in workers | _children(proc.pid):   # a failed run must not leave orphans
+            if _alive(w):
+                os.kill(w, signal.SIGKILL)

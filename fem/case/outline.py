@@ -443,6 +443,38 @@ def check_mechanism(case: Case, supports: list[Patch]) -> None:
                         "add or widen a support")
 
 
+def _patch_geometry(p: Patch):
+    if p.point is not None:
+        return Point(p.point)
+    if p.segments:
+        return shapely.MultiLineString([list(seg) for seg in p.segments])
+    return None   # a pin load on a hole
+
+
+def _check_loads_off_fixed(case: Case, sup: list[Patch], lds: list[Patch],
+                           tol: float) -> None:
+    """Refuse a load that lies wholly on stretches fixed in every direction it pushes: it
+    goes straight into the support, stresses nothing and every result would be zero."""
+    for ld, patch in zip(case.loads, lds, strict=True):
+        geom = _patch_geometry(patch)
+        if geom is None:
+            continue
+        dirs = {d for d, f in zip("xy", ld.force, strict=True) if f != 0.0}
+        held = [_patch_geometry(p) for s, p in zip(case.supports, sup, strict=True)
+                if dirs <= set(s.fix)]
+        held = [h for h in held if h is not None]
+        if not held:
+            continue
+        cover = unary_union(held).buffer(tol)
+        rest = geom.difference(cover)
+        if rest.is_empty or (patch.point is None and rest.length <= tol):
+            fixed = " and ".join(sorted(dirs))
+            raise CaseError(case.file, ld.key or "loads",
+                            f"lies wholly on a support fixed in {fixed}: the load goes "
+                            "straight into the support and stresses nothing; move it off "
+                            "the support")
+
+
 def validate_geometry(case: Case) -> None:
     """Geometric checks that need the outline; raise CaseError naming the key."""
     g = case.beam
@@ -504,7 +536,8 @@ def validate_geometry(case: Case) -> None:
                                                    f"of {sharp.minimum_clearance:.3g}; line "
                                                    "their edges up with the outline or keep "
                                                    f"them at least {small:.3g} apart")
-    patches(case, dom)
+    sup, lds = patches(case, dom)
+    _check_loads_off_fixed(case, sup, lds, small)
     if case.mesh.size > size:
         raise CaseError(f, "mesh.size", f"{case.mesh.size:g} is larger than the member "
                                         f"({size:g}); give a size a fraction of the depth")

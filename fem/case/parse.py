@@ -23,6 +23,18 @@ from classical.units import (
 )
 from fem.case.arcs import read_ring
 from fem.case.drawing import Drawing, read_drawing
+from fem.case.limits import (
+    MAX_CUTOUTS,
+    MAX_CUTS,
+    MAX_FILE_BYTES,
+    MAX_HOLES,
+    MAX_NESTING,
+    MAX_PLACEMENTS,
+    MAX_POINTS,
+    MAX_REFINE,
+    MAX_TITLE,
+    MAX_ZONES,
+)
 from fem.case.model import (
     DISTRIBUTIONS,
     EDGES,
@@ -53,24 +65,69 @@ from fem.case.plates import read_joints, read_plates, validate_planes
 from fem.case.project import read_project
 from fem.case.reader import Table, line_of
 from fem.case.section_rules import validate_section
-from fem.case.sizing import check_size
+from fem.case.sizing import check_scale, check_size
 from fem.errors import CaseError
 
-__all__ = ["load_case", "parse_case"]
+__all__ = ["load_case", "parse_case", "decode_case", "read_case_text"]
+
+
+def _check_nesting(text: str, file: str) -> None:
+    """Refuse brackets nested deeper than `MAX_NESTING` before the TOML parser recurses
+    into them (strings and comments skipped; a rough count is enough for a limit)."""
+    if text.count("[") + text.count("{") <= MAX_NESTING:
+        return
+    depth = 0
+    for line in text.splitlines():
+        code = re.sub(r'"(?:[^"\\]|\\.)*"|\'[^\']*\'', "", line).split("#")[0]
+        for ch in re.findall(r"[\[\]{}]", code):
+            if ch in "[{":
+                depth += 1
+                if depth > MAX_NESTING:
+                    raise CaseError(file, "", f"arrays or tables nested more than "
+                                              f"{MAX_NESTING} deep; a case file needs a few")
+            elif ch in "]}":
+                depth = max(0, depth - 1)
+
+
+def _at_most(t: Table, key: str, items: Any, limit: int, what: str) -> None:
+    """Refuse more than `limit` entries under `key` (a stated limit, fem.case.limits)."""
+    if isinstance(items, list | tuple) and len(items) > limit:
+        raise t.error(key, f"has {len(items):,} {what}; at most {limit:,} (a stated limit "
+                           "that keeps one check within minutes)")
+
 
 def load_case(path: str | Path) -> Case:
     """Read and validate a case file; raise `CaseError` on anything wrong."""
+    return parse_case(read_case_text(path), str(path))
+
+
+def read_case_text(path: str | Path) -> str:
+    """The text of a case file, read with a cap (`MAX_FILE_BYTES`: `/dev/zero` or a huge
+    file is refused after a few MB, not read without end); a UTF-8 byte-order mark is
+    accepted."""
     path = Path(path)
     name = str(path)
     try:
-        text = path.read_bytes().decode("utf-8")  # as stored (no newline translation)
+        with open(path, "rb") as fh:
+            raw = fh.read(MAX_FILE_BYTES + 1)
     except FileNotFoundError:
         raise CaseError(name, "", "file not found") from None
-    except UnicodeDecodeError:
-        raise CaseError(name, "", "cannot read the file: it is not UTF-8 text") from None
+    except IsADirectoryError:
+        raise CaseError(name, "", "is a folder, not a case file") from None
     except OSError as exc:
         raise CaseError(name, "", f"cannot read the file ({exc.__class__.__name__})") from None
-    return parse_case(text, name)
+    if len(raw) > MAX_FILE_BYTES:
+        raise CaseError(name, "", f"is larger than {MAX_FILE_BYTES // 2**20} MB, the limit "
+                                  "for a case file; a case needs a few kB")
+    return decode_case(raw, name)
+
+
+def decode_case(raw: bytes, name: str) -> str:
+    """Case file bytes as text: UTF-8, with or without a byte-order mark."""
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError:
+        raise CaseError(name, "", "cannot read the file: it is not UTF-8 text") from None
 
 
 def parse_case(text: str, file: str = "<case>") -> Case:
@@ -87,8 +144,16 @@ def parse_case(text: str, file: str = "<case>") -> Case:
 
 
 def _parse(text: str, file: str) -> Case:
+    text = text.removeprefix("\ufeff")   # a byte-order mark read as text
+    if len(text) > MAX_FILE_BYTES:
+        raise CaseError(file, "", f"is larger than {MAX_FILE_BYTES // 2**20} MB, the limit "
+                                  "for a case file; a case needs a few kB")
+    _check_nesting(text, file)
     try:
         data = tomllib.loads(text)
+    except RecursionError:
+        raise CaseError(file, "", f"arrays or tables nested too deeply (at most "
+                                  f"{MAX_NESTING} levels)") from None
     except tomllib.TOMLDecodeError as exc:
         m = re.search(r"line (\d+)", str(exc))
         raise CaseError(file, "", f"not valid TOML: {exc}",
@@ -104,6 +169,9 @@ def _parse(text: str, file: str) -> Case:
         raise top.error("name", f"is {len(case_name)} characters long; at most {MAX_NAME} "
                                 "(it names the output folder)")
     title = top.text("title", case_name)
+    if len(title) > MAX_TITLE:
+        raise top.error("title", f"is {len(title):,} characters long; at most {MAX_TITLE} "
+                                 "(it heads every report)")
     kind = top.text("kind", allowed=("beam", "section"))
     units = _units(top.table("units", None), top)
     material = _material(top.table("material"), kind)
@@ -114,6 +182,8 @@ def _parse(text: str, file: str) -> Case:
     check = _check(top.table("check", None), kind)
     if kind == "beam":
         geometry = _beam_geometry(top.table("geometry"), units)
+        _at_most(top, "supports", top.data.get("supports"), MAX_PLACEMENTS, "entries")
+        _at_most(top, "loads", top.data.get("loads"), MAX_PLACEMENTS, "entries")
         supports = tuple(_support(t) for t in top.tables("supports"))
         loads = tuple(_load(t) for t in top.tables("loads"))
         if not supports:
@@ -136,6 +206,7 @@ def _parse(text: str, file: str) -> Case:
     case = Case(name=case_name, title=title, kind=kind, units=units, material=material,
                 geometry=geometry, mesh=mesh, check=check, supports=supports, loads=loads,
                 shear=shear, file=file, schema=schema, project=project, text=text)
+    check_scale(case)
     if kind == "beam":
         validate_geometry(case)
         validate_planes(case)
@@ -201,6 +272,7 @@ def _mesh(t: Table) -> MeshSpec:
     max_dofs = t.number("max_dofs", 2_000_000, integer=True, low=1)
     adaptive = t.flag("adaptive", False)
     refine = []
+    _at_most(t, "refine", t.data.get("refine"), MAX_REFINE, "entries")
     for r in t.tables("refine"):
         refine.append(Refine(at=r.point("at"), radius=r.number("radius", low=0.0, low_open=True),
                              size=r.number("size", low=0.0, low_open=True)))
@@ -219,6 +291,9 @@ def _check(t: Table | None, kind: str) -> Check:
     cuts = t.numbers("cuts", None) if kind == "beam" else None
     if cuts is not None and not cuts:
         raise t.error("cuts", "is empty; leave it out for the automatic set")
+    if cuts is not None:
+        _at_most(t, "cuts", cuts, MAX_CUTS, "stations")
+        cuts = _distinct_cuts(t, cuts)
     tol = t.number("tolerance", 0.05, low=0.0, high=1.0)
     hv = t.number("hand_value", None, low=0.0, low_open=True)
     joints = read_joints(t) if kind == "section" else ()
@@ -226,6 +301,18 @@ def _check(t: Table | None, kind: str) -> Check:
     t.close()
     return Check(method=method, cuts=cuts, tolerance=tol, hand_value=hv, joints=joints,
                  planes=planes)
+
+
+def _distinct_cuts(t: Table, cuts: tuple[float, ...]) -> tuple[float, ...]:
+    """Refuse a station given twice (or within round-off of another): it would be reported
+    twice as if it were two checks."""
+    scale = max(abs(x) for x in cuts) or 1.0
+    order = sorted(range(len(cuts)), key=lambda i: cuts[i])
+    for a, b in zip(order[:-1], order[1:], strict=True):
+        if cuts[b] - cuts[a] <= 1e-9 * scale:
+            raise t.error(f"cuts.{b}", f"{cuts[b]:g} is given twice (also cuts.{a}); give "
+                                       "each station once")
+    return cuts
 
 
 def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
@@ -246,9 +333,19 @@ def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
             holes = [Hole(center=(x, y), radius=r) for x, y, r in d.circles]
             openings = d.openings + openings
         else:
-            ring = read_ring(t.raw("points"), t.file, t.key("points"))
+            raw = t.raw("points")
+            if isinstance(raw, list):
+                _at_most(t, "points", raw, MAX_POINTS, "points")
+            ring = read_ring(raw, t.file, t.key("points"))
         points = tuple((x, y) for x, y, _ in ring)
         bulges = tuple(b for _, _, b in ring) if any(b for _, _, b in ring) else ()
+        for i in range(1, len(points)):
+            if points[i] == points[i - 1]:
+                raise t.error(f"points.{i}", f"{list(points[i])} repeats the point before it; "
+                                             "give each corner once")
+    _at_most(t, "holes", t.data.get("holes"), MAX_HOLES, "holes")
+    _at_most(t, "cutouts", t.data.get("cutouts"), MAX_CUTOUTS, "cut-outs")
+    _at_most(t, "zones", t.data.get("zones"), MAX_ZONES, "zones")
     for h in t.tables("holes"):
         holes.append(Hole(center=h.point("center"),
                           radius=h.number("radius", low=0.0, low_open=True)))
@@ -378,10 +475,20 @@ def _section_geometry(t: Table, units: Units) -> SectionGeometry:
 def _rings(t: Table, k: str) -> Any:
     raw = t.raw(k)
     if k == "points":
+        if isinstance(raw, list):
+            _at_most(t, k, raw, MAX_POINTS, "points")
         return _vertices(read_ring(raw, t.file, t.key(k)))
     if not isinstance(raw, list):
         raise t.error(k, "must be a list of rings, each a list of [x, y] or [x, y, bulge] "
                          "vertices")
+    _at_most(t, k, raw, MAX_HOLES, "holes")
+    outer = t.data.get("points")
+    total = sum(len(r) for r in raw if isinstance(r, list)) + (
+        len(outer) if isinstance(outer, list) else 0)
+    if total > MAX_POINTS:
+        raise t.error(k, f"the outline and its holes have {total:,} points together; at most "
+                         f"{MAX_POINTS:,} (a stated limit that keeps one check within "
+                         "minutes)")
     return [_vertices(read_ring(r, t.file, f"{t.key(k)}.{j}")) for j, r in enumerate(raw)]
 
 

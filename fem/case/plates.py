@@ -171,12 +171,13 @@ def build_up(plates: tuple, file: str = "<case>") -> BuiltUp:
     return BuiltUp(_tidy(list(outer.coords[:-1]), tol), holes, tuple(interfaces))
 
 
-def drawn_section(g: SectionGeometry) -> SectionGeometry:
+def drawn_section(g: SectionGeometry, file: str = "<case>") -> SectionGeometry:
     """A built-up section as the ``polygon`` it is drawn as (others unchanged): for code
-    that needs only the outline (hand side, size estimate, mesh)."""
+    that needs only the outline (hand side, size estimate, mesh). `file` names the case
+    file in an error about the plates."""
     if g.shape != "built-up":
         return g
-    return SectionGeometry("polygon", build_up(g.params["plates"]).polygon_params())
+    return SectionGeometry("polygon", build_up(g.params["plates"], file).polygon_params())
 
 
 def section_polygon(g: SectionGeometry, file: str = "<case>") -> Polygon:

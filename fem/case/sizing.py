@@ -30,11 +30,19 @@ from shapely.geometry import Point, Polygon
 
 from classical.sections import section_outline
 from fem.case.model import Case
-from fem.case.outline import curved_edges, domain_polygon, patches, reentrant_corners
+from fem.case.outline import (
+    curved_edges,
+    domain_polygon,
+    outline_polygon,
+    patches,
+    reentrant_corners,
+)
 from fem.case.plates import drawn_section
 from fem.errors import CaseError
 
-__all__ = ["estimate_dofs", "level_size", "check_size", "DENSITY", "PERIMETER", "GRADING"]
+__all__ = ["estimate_dofs", "level_size", "check_size", "check_real_dofs", "check_scale",
+           "DENSITY",
+           "PERIMETER", "GRADING"]
 
 DENSITY = 2.3    # triangles per (element size)^2 of area
 PERIMETER = 0.4  # extra triangles per element along the boundary (over DENSITY): thin walls
@@ -62,6 +70,27 @@ def _graded(h0: float, H: float, d0: float, d1: float, r: float = 0.0) -> float:
     ring = 2 * math.pi * (i1 + (r + d0) * i0)
     ring -= math.pi * ((r + d1) ** 2 - (r + d0) ** 2) / H**2
     return inner + ring
+
+
+SHORT_SEGMENT = 2.2   # extra triangles per straight outline segment much shorter than the
+                      # element size: gmsh keeps every vertex of a polygon, so each short
+                      # segment brings its own small triangles and the grading away from
+                      # them (measured here 1.6 to 2.1 for outlines of 200 to 2000 segments
+                      # 0.15 to 1.5 long at sizes 2 to 50; tests/test_hostile.py keeps the
+                      # estimate within a factor 1.5 of such meshes)
+
+
+def _short_segments(rings: list, size: float) -> float:
+    """Extra triangles of the polygon segments shorter than the element size: SHORT_SEGMENT
+    each, fading linearly to none at a segment as long as an element."""
+    extra = 0.0
+    for ring in rings:
+        xy = np.asarray(ring, dtype=float)
+        if len(xy) < 2:
+            continue
+        seg = np.hypot(*(np.roll(xy, -1, axis=0) - xy).T)
+        extra += float(np.clip(1.0 - seg / size, 0.0, 1.0).sum())
+    return SHORT_SEGMENT * extra
 
 
 def _beam_triangles(case: Case, size: float) -> float:
@@ -99,7 +128,10 @@ def _beam_triangles(case: Case, size: float) -> float:
     for r in case.mesh.refine:
         per_h2 += (inside(r.at, 2 * r.radius) * _graded(r.size * scale, size, r.radius,
                                                          2 * r.radius) * size**2)
-    return DENSITY * per_h2 / size**2
+    tris = DENSITY * per_h2 / size**2
+    if g.shape == "polygon":   # the drawn outline (holes and fillets are true arcs in gmsh)
+        tris += _short_segments([list(outline_polygon(g).exterior.coords)[:-1]], size)
+    return tris
 
 
 SECTION_CORNER = 1 / 8   # fem.section.mesh: element size at sharp re-entrant corners / size
@@ -122,7 +154,10 @@ def _section_triangles(case: Case, size: float) -> float:
         per_h2 += share * _graded(fine, size, fine, d1) * size**2
     for r in case.mesh.refine:
         per_h2 += _graded(r.size * size / case.mesh.size, size, r.radius, 2 * r.radius) * size**2
-    return DENSITY * per_h2 / size**2
+    tris = DENSITY * per_h2 / size**2
+    if g.shape == "polygon":   # the drawn rings; the other shapes' arcs are true arcs
+        tris += _short_segments([o.outer, *o.holes], size)
+    return tris
 
 
 def level_size(case: Case, level: int) -> float:
@@ -179,6 +214,81 @@ def check_element_size(case: Case) -> None:
                         f"thinnest depth of material on the load path ({depth:.4g} "
                         f"{case.units.length}); use at most that, and for a converged "
                         "study about a quarter of it")
+
+
+def check_real_dofs(case: Case, dofs: int, size: float) -> None:
+    """Refuse a mesh whose real dof count exceeds `mesh.max_dofs` (called after meshing and
+    before assembly: the estimate can be beaten by outline detail it does not foresee)."""
+    if dofs > case.mesh.max_dofs:
+        raise CaseError(case.file, "mesh.max_dofs",
+                        f"the mesh at size {size:g} has {dofs:,} dofs (the estimate was "
+                        f"{estimate_dofs(case, size):,}), above the limit "
+                        f"{case.mesh.max_dofs:,}; raise mesh.size or mesh.max_dofs, or draw "
+                        "the outline with fewer points")
+
+
+def _extent(case: Case) -> tuple[str, float, float]:
+    """(key, larger side, largest |coordinate|) of the member or section as written."""
+    if case.kind == "beam":
+        g = case.beam
+        if g.shape == "rectangle":
+            return "geometry.length", max(g.length, g.depth), max(g.length, g.depth)
+        xy = np.asarray(g.points, dtype=float)
+        key = "geometry.points"
+    else:
+        g = drawn_section(case.section, case.file)   # built-up: the polygon of its plates
+        p = g.params
+        if g.shape != "polygon":
+            side = max(float(v) for k, v in p.items() if isinstance(v, float)
+                       and k != "root_radius")
+            return f"geometry.{next(iter(p))}", side, side
+        xy = np.asarray([v[:2] for v in p["points"]], dtype=float)  # (x, y[, bulge])
+        key = "geometry.plates" if case.section.shape == "built-up" else "geometry.points"
+    side = float(max(np.ptp(xy[:, 0]), np.ptp(xy[:, 1])))
+    return key, side, float(np.abs(xy).max())
+
+
+def check_scale(case: Case) -> None:
+    """Refuse numbers the model cannot carry in floating point: "out of scale", naming
+    the key (limits and their reasons in `fem.case.limits`). Runs before any geometry
+    check, so nothing downstream sees such a model."""
+    from fem.case.limits import (
+        MAX_EXTENT,
+        MAX_OFFSET,
+        MIN_EXTENT,
+        NUMBER_RANGE,
+        THICKNESS_RATIO,
+    )
+
+    f, unit = case.file, case.units.length
+    key, side, far = _extent(case)
+    if not MIN_EXTENT <= side <= MAX_EXTENT:
+        raise CaseError(f, key, f"out of scale: the {case.kind} is {side:.3g} {unit} across; "
+                                f"the mesher works from {MIN_EXTENT:g} to {MAX_EXTENT:g} "
+                                "length units: give lengths in another unit (units.length)")
+    if far > MAX_OFFSET * side:
+        raise CaseError(f, key, f"out of scale: the {case.kind} lies {far / side:.3g} times "
+                                f"its own size ({side:.3g} {unit}) from the origin; at most "
+                                f"{MAX_OFFSET:g}: move it near (0, 0)")
+    t = case.material.thickness
+    if case.kind == "beam" and not 1 / THICKNESS_RATIO <= t / side <= THICKNESS_RATIO:
+        raise CaseError(f, "material.thickness",
+                        f"out of scale: {t:.3g} against a member {side:.3g} {unit} across "
+                        f"(ratio {t / side:.3g}; allowed {1 / THICKNESS_RATIO:g} to "
+                        f"{THICKNESS_RATIO:g})")
+    if case.kind == "beam":
+        force = max(math.hypot(*ld.force) for ld in case.loads)
+        stress, fkey = force / (t * side), "loads"
+    else:
+        force = math.hypot(*case.shear)
+        stress, fkey = force / side**2, "loads.shear"
+    for what, value, k in (("the nominal stress force / area", stress, fkey),
+                           ("the nominal strain (stress / E)", stress / case.material.E,
+                            "material.E")):
+        if not 1 / NUMBER_RANGE <= value <= NUMBER_RANGE:
+            raise CaseError(f, k, f"out of scale: {what} is {value:.3g}; allowed "
+                                  f"{1 / NUMBER_RANGE:g} to {NUMBER_RANGE:g} (its square must "
+                                  "stay a finite number)")
 
 
 def check_size(case: Case) -> None:

@@ -13,9 +13,10 @@ import re
 from dataclasses import dataclass
 from typing import Any
 
+from fem.case.limits import MAX_SWEEP_POINTS
 from fem.errors import CaseError
 
-__all__ = ["Vary", "parse_vary", "get_key", "set_key"]
+__all__ = ["Vary", "parse_vary", "get_key", "set_key", "is_integer_key", "INTEGER_KEYS"]
 
 @dataclass(frozen=True)
 class Vary:
@@ -38,10 +39,27 @@ def parse_vary(spec: str) -> Vary:
                                        f"got {a}:{b}:{n}") from None
     if count < 1 or not (math.isfinite(start) and math.isfinite(stop)):
         raise CaseError("--vary", key, "needs finite START and STOP and N >= 1")
+    if count > MAX_SWEEP_POINTS:
+        raise CaseError("--vary", key, f"N = {count:,} is above the limit of "
+                                       f"{MAX_SWEEP_POINTS:,} sweep points")
     if count == 1:
         return Vary(key, (start,))
     step = (stop - start) / (count - 1)
     return Vary(key, tuple(start + i * step if i < count - 1 else stop for i in range(count)))
+
+
+INTEGER_KEYS = ("schema", "mesh.order", "mesh.levels", "mesh.max_dofs", "loads.*.hole")
+
+
+def is_integer_key(key: str) -> bool:
+    """Does the case format read `key` as a whole number (`INTEGER_KEYS`)?"""
+    parts = key.split(".")
+    for pattern in INTEGER_KEYS:
+        want = pattern.split(".")
+        if len(want) == len(parts) and all(w in ("*", p) for w, p in zip(want, parts,
+                                                                         strict=True)):
+            return True
+    return False
 
 
 def _walk(data: Any, key: str, file: str) -> tuple[Any, str | int]:
@@ -78,18 +96,23 @@ def get_key(data: dict[str, Any], key: str, file: str = "<case>") -> Any:
 def set_key(data: dict[str, Any], key: str, value: float, file: str = "<case>") -> dict:
     """A deep copy of `data` with the number at the dotted `key` replaced by `value`.
 
-    The key must exist and hold a number; a whole-number key (e.g. ``mesh.levels``) takes
-    only whole values.
+    The key must exist and hold a number. A key the case format reads as a whole number
+    (`INTEGER_KEYS`, e.g. ``mesh.levels``) takes only whole values; any other key written
+    as a TOML integer (``length = 300``) is a length or a force and takes fractions too.
     """
     out = copy.deepcopy(data)
     node, idx = _walk(out, key, file)
     old = node[idx]
     if isinstance(old, bool) or not isinstance(old, int | float):
         raise CaseError(file, key, f"holds {old!r}; only numbers can be varied")
-    if isinstance(old, int):
+    if isinstance(old, int) and is_integer_key(key):
         if float(value) != round(value):
             raise CaseError(file, key, f"takes whole numbers, got {value:g}")
         value = int(round(value))
+    elif isinstance(old, int) and float(value) == round(value) and abs(value) < 2**53:
+        value = int(round(value))      # stays as written where it can
+    else:
+        value = float(value)
     node[idx] = value
     return out
 

@@ -25,7 +25,7 @@ from fem.api import check
 from fem.case.parse import load_case
 from fem.errors import CaseError
 from fem.results import atomic_write
-from fem.study.pool import POINT_LOCK, process_pool, progress_bar
+from fem.study.pool import POINT_LOCK, end_workers, process_pool, progress_bar
 
 __all__ = [
     "Row", "SuiteReport", "figures_of", "tolerances", "compare", "run_suite", "case_paths",
@@ -273,7 +273,7 @@ def run_suite(folder: str | Path = "cases", only: list[str] | None = None,
             bar.set_postfix_str(Path(j[0]).name.removesuffix(".toml"))
             bar.update(1)
     except BaseException:
-        pool.shutdown(wait=False, cancel_futures=True)
+        end_workers(pool)          # running workers too, not only the queued runs
         raise
     finally:
         bar.close()

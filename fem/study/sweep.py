@@ -28,6 +28,7 @@ import copy
 import hashlib
 import itertools
 import json
+import math
 import os
 import tomllib
 import traceback
@@ -37,18 +38,33 @@ from pathlib import Path
 from typing import Any
 
 from fem.api import check
-from fem.case.parse import parse_case
+from fem.case.limits import MAX_SWEEP_POINTS
+from fem.case.parse import parse_case, read_case_text
 from fem.errors import CaseError, SolveError
+from fem.output_folder import check_writable
 from fem.results import atomic_write, write_json
-from fem.study.index import append_row, read_index
+from fem.study.cluster import (
+    SCHEDULER_DEADLINE,
+    connect_client,
+    parse_scheduler,
+    probe_scheduler,
+)
+from fem.study.index import append_row, compact_index, read_index, refuse_link
 from fem.study.keys import Vary, get_key, parse_vary, set_key
-from fem.study.pool import POINT_LOCK, process_pool, progress_bar
+from fem.study.pool import (
+    POINT_LOCK,
+    end_workers,
+    process_pool,
+    progress_bar,
+    terminate_as_interrupt,
+)
 from fem.study.sweep_outputs import CSV_FIELDS, finish, ratio_figure, threshold
 from fem.study.toml_writer import dumps_toml
 
 __all__ = [
     "Vary", "Point", "SweepReport", "parse_vary", "get_key", "set_key", "dumps_toml",
-    "make_points", "run_point", "point_row", "run_sweep", "threshold", "progress_bar",
+    "make_points", "check_sweep_size", "run_point", "point_row", "run_sweep", "threshold",
+    "progress_bar",
     "read_index", "ratio_figure", "process_pool", "CSV_FIELDS",
 ]
 
@@ -63,6 +79,16 @@ class Point:
     text: str
 
 
+def check_sweep_size(varies: list[Vary]) -> None:
+    """Refuse a product of --vary counts above `MAX_SWEEP_POINTS` (before any point)."""
+    total = math.prod(len(v.values) for v in varies)
+    if total > MAX_SWEEP_POINTS:
+        counts = " x ".join(f"{len(v.values):,}" for v in varies)
+        raise CaseError("--vary", varies[0].key, f"the ranges make {counts} = {total:,} "
+                                                 f"points, above the limit of "
+                                                 f"{MAX_SWEEP_POINTS:,} sweep points")
+
+
 def make_points(base: dict[str, Any], varies: list[Vary], file: str = "<case>",
                 levels: int | None = None) -> list[Point]:
     """The cartesian product of the ranges, in order (the last key varies fastest)."""
@@ -70,6 +96,7 @@ def make_points(base: dict[str, Any], varies: list[Vary], file: str = "<case>",
         base = copy.deepcopy(base)
         base.setdefault("mesh", {})["levels"] = int(levels)
     keys = [v.key for v in varies]
+    check_sweep_size(varies)
     if len(set(keys)) != len(keys):
         raise CaseError("--vary", keys[0], "the same key is varied twice")
     for v in varies:
@@ -126,6 +153,8 @@ def point_row(point: Point, outcome: dict[str, Any]) -> dict[str, Any]:
 
 def _store(out: Path, point: Point, outcome: dict[str, Any]) -> dict[str, Any]:
     folder = out / "points" / point.id
+    for d in (out / "points", folder):
+        refuse_link(d)          # a link planted in the folder would take the files elsewhere
     atomic_write(folder / "case.toml", point.text.encode("utf-8"))
     if outcome["status"] == "ok":
         write_json(outcome["data"], folder / "results.json")
@@ -149,26 +178,26 @@ def _run_local(todo: list[Point], out: Path, workers: int | None,
 
     pool = process_pool(min(workers or os.cpu_count() or 1, len(todo)))
     try:
-        futures = {pool.submit(run_point, p.text, _label(out, p)): p for p in todo}
-        for fut in as_completed(futures):
-            done(futures[fut], fut.result())
+        with terminate_as_interrupt():   # SIGTERM, like SIGINT, ends the workers too
+            futures = {pool.submit(run_point, p.text, _label(out, p)): p for p in todo}
+            for fut in as_completed(futures):
+                done(futures[fut], fut.result())
     except BaseException:
-        pool.shutdown(wait=False, cancel_futures=True)
+        end_workers(pool)
         raise
     pool.shutdown()
 
 
 def _run_dask(todo: list[Point], out: Path, address: str, tag: str,
-              done: Callable[[Point, dict[str, Any]], None]) -> None:
+              done: Callable[[Point, dict[str, Any]], None],
+              deadline: float = SCHEDULER_DEADLINE) -> None:
     try:
         from distributed import Client, as_completed
     except ImportError:
         raise CaseError("--scheduler", address, "needs Dask: pip install "
                                                 "'shearcheck[cluster]'") from None
-    try:
-        client = Client(address, timeout="20s")
-    except (OSError, TimeoutError) as exc:
-        raise CaseError("--scheduler", address, f"cannot reach the scheduler ({exc})") from None
+    probe_scheduler(address, deadline)        # a silent port or another server: exit 2
+    client = connect_client(Client, address, deadline)
     try:
         futures = {client.submit(run_point, p.text, _label(out, p), pure=False,
                                  key=f"shearcheck-{tag}-{p.id}"): p for p in todo}
@@ -180,6 +209,36 @@ def _run_dask(todo: list[Point], out: Path, address: str, tag: str,
             done(futures[fut], outcome)
     finally:
         client.close()
+
+
+def _resumable(out: Path, warn: Callable[[str], None] | None) -> list[dict[str, Any]]:
+    """The finished points a resumed sweep may skip. Damaged index lines and points whose
+    folder (or its results.json / error.txt) is missing are dropped from the index, with a
+    warning, so that they run again."""
+    index = out / "index.jsonl"
+    damaged: list[str] = []
+    rows = read_index(index, damaged)
+    keep = []
+    for r in rows:
+        folder = out / "points" / r["id"]
+        need = folder / ("results.json" if r["status"] == "ok" else "error.txt")
+        if folder.is_symlink() or not need.is_file():
+            damaged.append(f"point {r['id']} (its folder or {need.name} is missing)")
+        else:
+            keep.append(r)
+    if damaged:
+        compact_index(index, keep)
+        (warn or _stderr_warning)(f"{index.name}: {len(damaged)} damaged or stale "
+                                  f"entr{'y' if len(damaged) == 1 else 'ies'} "
+                                  f"({', '.join(damaged[:5])}{' ...' if len(damaged) > 5 else ''}"
+                                  "); those points run again")
+    return keep
+
+
+def _stderr_warning(message: str) -> None:
+    import sys
+
+    print(f"shearcheck: warning: {message}", file=sys.stderr)
 
 
 @dataclass
@@ -206,29 +265,41 @@ def _identity(case_path: Path, text: str, varies: list[Vary], levels: int | None
 
 def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
               workers: int | None = None, scheduler: str | None = None,
-              levels: int | None = None, quiet: bool = False) -> SweepReport:
-    """Run (or resume) a sweep into `out`; see the module docstring for the layout."""
+              levels: int | None = None, quiet: bool = False,
+              warn: Callable[[str], None] | None = None,
+              scheduler_deadline: float = SCHEDULER_DEADLINE) -> SweepReport:
+    """Run (or resume) a sweep into `out`; see the module docstring for the layout.
+
+    `scheduler` (``--scheduler``) is validated first (`fem.study.cluster.parse_scheduler`);
+    ``""`` is refused, not taken for "run locally". Reaching it is given
+    `scheduler_deadline` seconds (to connect and be greeted, and again for the client).
+    """
     case_path, out = Path(case_path), Path(out)
-    try:
-        text = case_path.read_text(encoding="utf-8")
-    except OSError:
-        raise CaseError(str(case_path), "", "file not found or unreadable") from None
+    if scheduler is not None:
+        scheduler = parse_scheduler(scheduler)
+    text = read_case_text(case_path)
     base_case = parse_case(text, str(case_path))          # the base itself must be valid
     base = tomllib.loads(text)
     if not varies:
         raise CaseError("--vary", "", "give at least one --vary KEY=START:STOP:N")
     points = make_points(base, varies, str(case_path), levels)
+    check_writable(out)     # a file, or a folder we cannot write, before anything runs
     ident = _identity(case_path, text, varies, levels)
     manifest = out / "sweep.json"
+    refuse_link(manifest)
     if manifest.exists():
-        old = json.loads(manifest.read_text(encoding="utf-8"))
-        if {k: old.get(k) for k in ident if k != "case"} != {k: v for k, v in ident.items()
-                                                              if k != "case"}:
+        try:
+            old = json.loads(manifest.read_text(encoding="utf-8"))
+        except (UnicodeDecodeError, json.JSONDecodeError):
+            raise CaseError(str(manifest), "", "is damaged (not JSON); this folder cannot be "
+                                               "resumed: use a new --out") from None
+        mine = {k: v for k, v in ident.items() if k != "case"}
+        if not isinstance(old, dict) or {k: old.get(k) for k in mine} != mine:
             raise CaseError(str(manifest), "", "this folder holds another sweep (other case "
                                                "file, ranges or levels); use a new --out")
     else:
         atomic_write(manifest, json.dumps(ident, indent=1).encode("utf-8"))
-    finished = {r["id"] for r in read_index(out / "index.jsonl")}
+    finished = {r["id"] for r in _resumable(out, warn)}
     todo = [p for p in points if p.id not in finished]
     bar = progress_bar(len(points), f"sweep {base_case.name}", quiet)
     bar.update(len(points) - len(todo))
@@ -240,7 +311,8 @@ def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
 
     try:
         if todo and scheduler:
-            _run_dask(todo, out, scheduler, ident["case_sha256"][:12], done)
+            _run_dask(todo, out, scheduler, ident["case_sha256"][:12], done,
+                      scheduler_deadline)
         elif todo:
             _run_local(todo, out, workers, done)
     finally:
