@@ -187,6 +187,8 @@ def test_reference_values_follow_from_their_closed_forms():
                                             rel=1e-6)
     assert value("round-pin-flexure") == pytest.approx(
         (3 + 0.6) / 2.6 * 10000 / (math.pi * 30**2 / 4), rel=1e-6)
+    assert value("circle-shear-coefficient") == pytest.approx(
+        6 * 1.3**2 / (7 + 14 * 0.3 + 8 * 0.3**2), rel=1e-6)
     assert value("circle-torsion-constant") == pytest.approx(math.pi * 30**4 / 32, rel=1e-7)
     assert value("hollow-circle-torsion-constant") == pytest.approx(
         math.pi * (40**4 - 24**4) / 32, rel=1e-7)

@@ -372,6 +372,7 @@ def format_summary(ver: Verification) -> str:
     for r in ver.failed:
         lines.append(f"  {r.name}: {r.reason}")
     n = len(ver.benchmarks)
-    lines.append(f"all {n} benchmarks pass ({ver.wall:.1f} s)" if ver.passed else
+    lines.append(f"all {n} benchmark{'s' if n != 1 else ''} pass ({ver.wall:.1f} s)"
+                 if ver.passed else
                  f"FAILED {len(ver.failed)} of {n}: {', '.join(r.name for r in ver.failed)}")
     return "\n".join(lines)
