@@ -89,8 +89,7 @@ cuts = [50.0, 100.0]
 
 def test_deep_simply_supported_uniform_load():
     """Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 22: simply supported beam of
-    span L = 2l and
-    depth h = 2c under uniform load q, reactions as parabolic end shear. At midspan
+    span L = 2l and depth h = 2c under uniform load q, reactions as parabolic end shear. At midspan
     sigma_x,max = (M c/I)(1 + (4/15)(h/L)^2); tau_xy = (q/2I)(c^2 - y^2) x is exactly
     parabolic. L/h = 2, q = 10 N/mm, t = 1: M = q L^2/8 = 50 kN mm, I = 1e6/12 mm^4,
     M c/I = 30 MPa, so sigma_x,max = 32 MPa; at the quarter-span cut V = 500 N and

@@ -51,8 +51,7 @@ def test_outside_and_top_edge_are_zero() -> None:
 def test_circle_maximum_converges_to_four_thirds(n: int) -> None:
     """Solid circle: tau_max = (4/3) V/A at the neutral axis (Gere & Goodno, Mechanics
     of Materials, 7th ed., Sec. 5.9, from memory).  The n-gon converges to it at second order like
-    its area; the bound
-    6/n^2 on the relative error is set just above the observed 4.93/n^2."""
+    its area; the bound 6/n^2 on the relative error is set just above the observed 4.93/n^2."""
     d, V = 2.0, 1.0
     m = max_shear_formula(circle(d, segments=n), V)
     exact = 4 / 3 * V / (math.pi * d**2 / 4)

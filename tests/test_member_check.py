@@ -106,8 +106,8 @@ def test_a_coarse_three_level_study_is_inconclusive_with_the_reason(tmp_path):
 def test_an_excess_between_the_cuts_is_found_by_the_envelope():
     """The 200 x 100 x 10 mm plate cantilever with 20 kN spread uniformly on its free edge:
     the end load is not the parabola of Timoshenko & Goodier (Theory of Elasticity, 3rd ed.,
-    section 21), so near the
-    loaded end the FE shear at mid-depth exceeds 1.5 V/A = 30 MPa by about 6 % (Saint-Venant
+    section 21), so near the loaded end the FE shear at mid-depth exceeds 1.5 V/A = 30 MPa by about
+    6 % (Saint-Venant
     end zone), between the automatic cuts. The verdict is decided on the envelope: unsafe,
     worst point within one element of x = 172.7 mm (measured on a 5 mm mesh)."""
     from fem.api import check

@@ -109,8 +109,8 @@ def shear() -> BeamRun:
 
 def test_kirsch_tension(tension):
     """Kirsch (1898); Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 35 (section
-    number from memory): a small
-    circular hole in an infinite plate under uniaxial tension sigma has the hoop stress
+    number from memory): a small circular hole in an infinite plate under uniaxial tension sigma
+    has the hoop stress
     sigma (1 - 2 cos 2 theta) on its edge, +3 sigma at theta = 90 deg and -sigma at 0.
 
     Plate W = 20 d (200 mm, d = 10 mm), uniform end tractions, element sizes 20, 10, 5 mm.

@@ -66,8 +66,8 @@ def test_a_sharp_root_governs_the_section_verdict():
     """I 300 x 150 x 10.7 x 7.1 without root radius: away from the corners the web shear is
     the thin-walled/VQ(It) value (headline ratio about 1), but at the sharp flange-web roots
     the elastic stress is singular (the antiplane corner solution r^(pi/alpha - 1), alpha = 270
-    degrees; common practice)
-    and its raw peak is far above the hand value, so the singular corner governs and the
+    degrees; common practice) and its raw peak is far above the hand value, so the singular corner
+    governs and the
     verdict is inconclusive (fem.verdict row 4), not holds."""
     res = check(parse_case(SHARP_I, "sharp-i.toml")).result
     s = res.section

@@ -96,8 +96,7 @@ def test_circle_centre_and_ends_of_diameter(nu):
 def test_torsion_constant_of_rectangles(ratio):
     """J of b x h rectangles (1:1, 2:1, 4:1) against the series of Timoshenko & Goodier,
     Theory of Elasticity, 3rd ed., section 109 (beta = 0.1406, 0.229, 0.281 for J = beta b h^3) to
-    2e-4; the warping J
-    converges at order 4, so this is a loose bound for size h/10."""
+    2e-4; the warping J converges at order 4, so this is a loose bound for size h/10."""
     b, h = 10.0 * ratio, 10.0
     sol = _solve("rectangle", h / 10, 0.3, width=b, depth=h)
     assert sol.J == pytest.approx(rectangle_j_series(b, h), rel=2e-4)
@@ -117,8 +116,8 @@ def test_thin_channel_shear_centre():
     lies e = 3 b^2 / (h + 6 b) behind the web centre line (b = 50: flange width to the web
     centre line, h = 98 between flange centre lines; Gere & Goodno, Mechanics of Materials, 7th
     ed., ch. 6, shear centres of thin-walled open sections, from memory).  Within 1 % (measured
-    0.16 %; the rest is the
-    wall thickness, which the thin-walled formula neglects); on the axis of symmetry."""
+    0.16 %; the rest is the wall thickness, which the thin-walled formula neglects); on the axis of
+    symmetry."""
     t = 2.0
     sol = _solve("channel", 1.0, 0.3, depth=100.0, flange_width=50.0 + t / 2,
                  flange_thickness=t, web_thickness=t)
@@ -132,8 +131,7 @@ def test_thin_angle_and_tee_shear_centres():
     lines, (t/2, t/2); of a tee the crossing of flange and web centre lines,
     (0, depth - t/2) (Gere & Goodno, Mechanics of Materials, 7th ed., ch. 6, shear centres of thin-
     walled open sections, from memory).  For t = 1 on 60 x 40 legs within 0.05 t (measured 0.02 t);
-    tee within
-    0.1 t.  The angle has Ixy != 0: the coupled bending is exercised."""
+    tee within 0.1 t.  The angle has Ixy != 0: the coupled bending is exercised."""
     t = 1.0
     ang = _solve("angle", 0.5, 0.3, leg_x=60.0, leg_y=40.0, thickness=t)
     assert np.hypot(ang.shear_centre[0] - t / 2, ang.shear_centre[1] - t / 2) < 0.05 * t
@@ -169,8 +167,7 @@ def test_energy_shear_coefficients():
     """Energy shear coefficient k = V^2 / (A int |tau|^2 dA): rectangle at nu = 0, 5/6
     (parabola); circle at nu = 0.3, 6 (1 + nu)^2 / (7 + 14 nu + 8 nu^2) (the Timoshenko &
     Goodier, Theory of Elasticity, 3rd ed., section 121 stresses integrated over the disc; 6/7 at
-    nu = 0, as Cowper's value
-    there).  To 1e-5."""
+    nu = 0, as Cowper's value there).  To 1e-5."""
     rect = _solve("rectangle", 1.0, 0.0, width=10.0, depth=20.0)
     assert rect.shear_coefficients[1] == pytest.approx(5 / 6, rel=1e-5)
     nu = 0.3
@@ -194,8 +191,7 @@ def _circle_l2_error(size: float, order: int, nu: float = 0.3) -> tuple[float, f
 
 def test_convergence_rates_circle():
     """Circle, exact flexure stresses of Timoshenko & Goodier, Theory of Elasticity,
-    3rd ed., section 121,
-    tau_zy = (3+2nu)/(8(1+nu)) V/I (R^2 - y^2 - (1-2nu)/(3+2nu) x^2),
+    3rd ed., section 121, tau_zy = (3+2nu)/(8(1+nu)) V/I (R^2 - y^2 - (1-2nu)/(3+2nu) x^2),
     tau_zx = -(1+2nu)/(4(1+nu)) V x y / I.  Log-log slope of the relative L2 stress error
     against the element size: P2 measured 2.05 (asserted >= 1.8), P1 measured 0.98
     (asserted >= 0.9); the P2 torsion constant J = pi d^4/32 converges at order 4
