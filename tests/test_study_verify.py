@@ -65,7 +65,8 @@ def test_verify_quick_passes_and_writes_the_report(quick_run):
     assert [b["name"] for b in data["benchmarks"]] == [p.stem for p in QUICK]
     for b in data["benchmarks"]:
         assert {"name", "source", "quantity", "reference", "computed", "error", "tolerance",
-                "gci", "passed"} <= set(b)
+                "gci", "passed", "unit"} <= set(b)
+        assert b["unit"]
     prov = data["provenance"]
     assert {"shearcheck", "python", "packages", "platform", "run_utc"} <= set(prov)
     assert {"numpy", "scipy", "scikit-fem", "gmsh"} <= set(prov["packages"])
@@ -255,6 +256,7 @@ note = "A round bar's torsion constant, pi d^4/32, as a tiny benchmark for the f
     (BASE + REF + "measure = \"peak\"\n", "reference.measure"),
     (BASE + REF.replace("section.J", "section..J"), "reference.quantity"),
     (BASE + REF + "tolerance_x = 0\n", "reference.tolerance_x"),
+    (BASE + REF + "unit = 1\n", "reference.unit"),
     (REF + BASE.replace("# a benchmark\n", "[case]\n"), "reference"),
     (BASE + REF + 'function = "os.system"\n', "reference.function"),
     (BASE + REF + 'function = "classical.shapes.circle"\n', "reference.function"),

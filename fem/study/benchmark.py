@@ -21,6 +21,7 @@ quantity      a path into results.json (`fem.study.quantity`), or into the retur
 value         the reference value, in the case's units
 tolerance     allowed relative error |computed - value| / max(|value|, scale)
 note          one paragraph: what the benchmark exercises and how `value` follows
+unit          optional: the unit of `value` as printed in the report (e.g. "MPa", "mm^4")
 scale         optional: the floor of the error's denominator (for values near zero)
 measure       optional: "value" (default) or "growth": the slope d ln|q| / d ln h over
               the mesh levels (`fem.convergence.growth_exponent`) of a quantity that
@@ -50,8 +51,8 @@ __all__ = ["Benchmark", "load_benchmark", "call_function", "returned_fields", "M
            "REFERENCE_KEYS"]
 
 MEASURES = ("value", "growth")
-REFERENCE_KEYS = ("source", "quantity", "value", "tolerance", "note", "scale", "measure",
-                  "quick", "function", "args")
+REFERENCE_KEYS = ("source", "quantity", "value", "tolerance", "note", "unit", "scale",
+                  "measure", "quick", "function", "args")
 _REQUIRED = ("source", "quantity", "value", "tolerance", "note")
 _HEADER = re.compile(r"^[ \t]*\[[ \t]*reference[ \t]*\][ \t]*(#.*)?$", re.MULTILINE)
 _FUNCTION = re.compile(r"classical\.[a-z_][a-z0-9_]*\.[A-Za-z_][A-Za-z0-9_]*")
@@ -68,6 +69,7 @@ class Benchmark:
     value: float
     tolerance: float
     note: str
+    unit: str = ""
     scale: float = 0.0
     measure: str = "value"
     quick: bool = False
@@ -114,6 +116,10 @@ def _reference(ref: Any, file: str) -> dict[str, Any]:
         raise CaseError(file, "reference.quantity", str(exc)) from None
     out["value"] = _number(ref, "value", file)
     out["tolerance"] = _number(ref, "tolerance", file, low=0.0)
+    if "unit" in ref:
+        if not isinstance(ref["unit"], str):
+            raise CaseError(file, "reference.unit", "must be a string, e.g. \"MPa\"")
+        out["unit"] = ref["unit"].strip()
     if "scale" in ref:
         out["scale"] = _number(ref, "scale", file, low=0.0)
     if "measure" in ref:

@@ -70,6 +70,7 @@ class BenchmarkResult:
     gci: float | None            # Celik GCI of the finest level (fraction), None if none
     passed: bool
     note: str
+    unit: str = ""
     scale: float = 0.0
     levels: list[dict[str, float]] = field(default_factory=list)   # [{"size", "value"}]
     convergence: str = ""        # the acceptance rule's words on the study
@@ -209,7 +210,7 @@ def run_benchmark(path: str | Path) -> BenchmarkResult:
     return BenchmarkResult(
         name=b.name, kind=b.kind, source=b.source, quantity=b.quantity, measure=b.measure,
         reference=b.value, computed=computed, error=error, tolerance=b.tolerance, gci=gci,
-        passed=passed, note=b.note, scale=b.scale, levels=levels, convergence=words,
+        passed=passed, note=b.note, unit=b.unit, scale=b.scale, levels=levels, convergence=words,
         verdict=verdict, reason=reason or why, seconds=time.perf_counter() - t0,
         file_sha256=sha)
 
@@ -286,9 +287,10 @@ def verification_note(ver: Verification) -> Any:
 
     prov = ver.provenance
     n, bad = len(ver.benchmarks), ver.failed
-    rows = [[r.name, r.quantity, _g(r.reference), _g(r.computed), _pct(r.error), _pct(r.gci),
-             _pct(r.tolerance), "pass" if r.passed else "FAIL"] for r in ver.benchmarks]
-    table = Table(["benchmark", "quantity", "reference", "computed", "error", "GCI",
+    rows = [[r.name, r.quantity, r.unit or "–", _g(r.reference), _g(r.computed), _pct(r.error),
+             _pct(r.gci), _pct(r.tolerance), "pass" if r.passed else "FAIL"]
+            for r in ver.benchmarks]
+    table = Table(["benchmark", "quantity", "unit", "reference", "computed", "error", "GCI",
                    "tolerance", "result"], rows,
                   caption="Error = |computed − reference| / max(|reference|, scale); GCI of "
                           "the finest mesh (Celik et al. 2008); – where none applies.",
@@ -363,9 +365,9 @@ def write_verification(ver: Verification, out: str | Path, report: bool = True) 
 
 def format_summary(ver: Verification) -> str:
     """One row per benchmark, then the last line: all pass, or which fail."""
-    head = ("benchmark", "reference", "computed", "error", "GCI", "tol", "result")
-    cells = [head] + [(r.name, _g(r.reference), _g(r.computed), _pct(r.error), _pct(r.gci),
-                       _pct(r.tolerance), "pass" if r.passed else "FAIL")
+    head = ("benchmark", "unit", "reference", "computed", "error", "GCI", "tol", "result")
+    cells = [head] + [(r.name, r.unit or "-", _g(r.reference), _g(r.computed), _pct(r.error),
+                       _pct(r.gci), _pct(r.tolerance), "pass" if r.passed else "FAIL")
                       for r in ver.benchmarks]
     w = [max(len(c[i]) for c in cells) for i in range(len(head))]
     lines = ["  ".join(c[i].ljust(w[i]) for i in range(len(head))).rstrip() for c in cells]
