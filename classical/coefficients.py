@@ -175,8 +175,9 @@ def kt_net_heywood(d_over_w: float) -> float:
 def kt_net_howland(d_over_w: float) -> float:
     """Polynomial fit to Howland's (1930) solution, net section:
     Kt_net = 3.00 - 3.13 r + 3.66 r^2 - 1.53 r^3, r = d/W in [0, 1).
-    Pilkey & Pilkey, Peterson's Stress Concentration Factors, 3rd ed., Chart 4.1; also
-    Roark 7th ed., Table 17.1 (coefficients and chart numbers from memory)."""
+    Howland (1930), Phil. Trans. R. Soc. A 229, 49-86, as the polynomial fit of Pilkey &
+    Pilkey, Peterson's Stress Concentration Factors, 3rd ed. (Wiley, 2008), Chart 4.1 (fit
+    coefficients and chart number from memory)."""
     r = _ratio(d_over_w)
     return 3.00 - 3.13 * r + 3.66 * r**2 - 1.53 * r**3
 

@@ -1,4 +1,4 @@
-"""Command line: `shearcheck run | demo | hand | show | regress | sweep`.
+"""Command line: `shearcheck run | demo | hand | show | regress | sweep | verify`.
 
 Exit codes: 0 the check ran (any verdict), 2 bad input (one line on stderr, no traceback),
 1 internal error (short message; the traceback goes to `shearcheck-error.log` in the
@@ -45,6 +45,7 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("case", type=Path)
     s.add_argument("--out", type=Path, default=None, help="default: out/<case name>")
     _suite_parsers(sub)
+    _verify_parser(sub)
     return p
 
 
@@ -63,6 +64,46 @@ def _show(case_path: Path, out: Path | None) -> int:
     print(pv.summary())
     print(f"model: {out / pv.figure.name}")
     return 0
+
+
+def _verify_parser(sub) -> None:
+    v = sub.add_parser("verify", help="run the verification benchmarks against published "
+                                      "values and write a report")
+    v.add_argument("folder", type=Path, nargs="?", default=None,
+                   help="folder of benchmark files (default: cases/verification)")
+    v.add_argument("--quick", action="store_true",
+                   help="only the quick subset (the benchmarks marked quick = true)")
+    v.add_argument("--only", nargs="+", metavar="NAME", help="only these benchmarks")
+    v.add_argument("--out", type=Path, default=Path("out/verify"),
+                   help="output folder (default: out/verify)")
+    v.add_argument("--workers", type=int, default=None, help="processes (default: the cores)")
+    v.add_argument("--quiet", action="store_true", help="no progress bar; the last line only")
+
+
+def _verify(args: argparse.Namespace) -> int:
+    from fem.study.verify import (
+        DEFAULT_FOLDER,
+        format_summary,
+        run_verification,
+        write_verification,
+    )
+
+    if args.workers is not None and args.workers < 1:
+        raise CaseError("command line", "--workers", f"must be >= 1, got {args.workers}")
+    if args.out.exists() and not args.out.is_dir():
+        raise CaseError(str(args.out), "--out", "exists and is not a folder")
+    try:
+        ver = run_verification(args.folder or DEFAULT_FOLDER, only=args.only, quick=args.quick,
+                               workers=args.workers, quiet=args.quiet)
+        write_verification(ver, args.out)
+    except (CaseError, SolveError):
+        raise
+    except Exception:
+        _log_internal(args.out)
+        raise
+    text = format_summary(ver)
+    print(text if not args.quiet else text.splitlines()[-1])
+    return 0 if ver.passed else 1
 
 
 def _suite_parsers(sub) -> None:
@@ -242,6 +283,8 @@ def main(argv: list[str] | None = None) -> int:
             return _regress(args)
         if args.command == "sweep":
             return _sweep(args)
+        if args.command == "verify":
+            return _verify(args)
     except CaseError as exc:
         print(f"shearcheck: {exc}", file=sys.stderr)
         return 2

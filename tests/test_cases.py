@@ -1,5 +1,6 @@
 """Every bundled case runs (at its own mesh settings, one level for speed) and meets the
-contract; analytical cases are checked in their own test files."""
+contract; the analytical ones are pinned to their published values by the benchmarks of
+cases/verification/ (tests/test_study_verify.py)."""
 
 from __future__ import annotations
 

@@ -88,8 +88,8 @@ cuts = [50.0, 100.0]
 
 
 def test_deep_simply_supported_uniform_load():
-    """Timoshenko & Goodier, 3rd ed., section 22: simply supported beam of span L = 2l and
-    depth h = 2c under uniform load q, reactions as parabolic end shear. At midspan
+    """Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 22: simply supported beam of
+    span L = 2l and depth h = 2c under uniform load q, reactions as parabolic end shear. At midspan
     sigma_x,max = (M c/I)(1 + (4/15)(h/L)^2); tau_xy = (q/2I)(c^2 - y^2) x is exactly
     parabolic. L/h = 2, q = 10 N/mm, t = 1: M = q L^2/8 = 50 kN mm, I = 1e6/12 mm^4,
     M c/I = 30 MPa, so sigma_x,max = 32 MPa; at the quarter-span cut V = 500 N and
@@ -111,7 +111,7 @@ def test_deep_simply_supported_uniform_load():
 
 
 def test_deep_beam_with_the_exact_end_tractions():
-    """The same Timoshenko & Goodier section 22 beam with its exact end tractions: besides
+    """The same beam (Timoshenko & Goodier, section 22) with its exact end tractions: besides
     the parabolic shear the ends carry the self-equilibrated sigma_x = -(q/2I)(2/3 y^3 -
     2/5 c^2 y) (y up from the centroid, c = h/2). Added by superposition (linear elasticity),
     the FE field is then the exact solution's: tau_xy at the quarter-span cut is the

@@ -1,5 +1,6 @@
 """Cross-check of the 1D stiffness solver (classical.beam1d) against the closed forms of
-classical.statics (Roark 7th ed. Table 8.1 / Gere & Goodno Appendix H, Euler-Bernoulli).
+classical.statics (Young & Budynas, Roark's Formulas for Stress and Strain, 7th ed., Table 8.1;
+Gere & Goodno, Mechanics of Materials, 7th ed., Appendix H; Euler-Bernoulli; both from memory).
 
 Sign conventions differ and are converted here: beam1d uses upward Fy, V = sum of Fy
 to the right and M > 0 hogging (dM/dx = V), so V_1d = -V and M_1d = -M of statics

@@ -20,14 +20,15 @@ from classical.bending import (
 
 def _transform(sx: float, sy: float, txy: float, th: float) -> tuple[float, float]:
     """sigma_x' and tau_x'y' on a plane whose normal is at th from x (Gere & Goodno,
-    7th ed., Sec. 7.2 transformation equations, from memory)."""
+    Mechanics of Materials, 7th ed., Sec. 7.2 transformation equations, from memory)."""
     c, s = math.cos(2 * th), math.sin(2 * th)
     return ((sx + sy) / 2 + (sx - sy) / 2 * c + txy * s, -(sx - sy) / 2 * s + txy * c)
 
 
 def test_flexure_formula_rectangle() -> None:
     """Rectangle b x h: sigma_max = M c/I = 6 M/(b h^2); M = 2.4e6 N mm, b = 40, h = 60
-    gives 6 * 2.4e6 / (40 * 3600) = 100 MPa (Gere & Goodno, Sec. 5.5)."""
+    gives 6 * 2.4e6 / (40 * 3600) = 100 MPa (Gere & Goodno, Mechanics of Materials, 7th ed.,
+    Sec. 5.5, from memory)."""
     b, h, M = 40.0, 60.0, 2.4e6
     assert bending_stress(M, h / 2, b * h**3 / 12) == pytest.approx(100.0, rel=1e-14)
 
@@ -86,7 +87,7 @@ def test_arrays_broadcast_and_invariants() -> None:
 def test_von_mises_plane_strain_hand_value() -> None:
     """Plane strain, sx = 150, sy = txy = 0, nu = 0.25: sz = nu (sx + sy) = 37.5 and
     sigma_vm = sqrt(((150 - 0)^2 + (0 - 37.5)^2 + (37.5 - 150)^2)/2) = sqrt(18281.25)
-    = 135.208 (hand arithmetic; J2 form with plane-strain sz, from memory), where the
+    = 135.208 (hand arithmetic; J2 form with plane-strain sz, common practice), where the
     plane-stress form gives 150."""
     assert von_mises_plane_strain(150.0, 0.0, 0.0, 0.25) == pytest.approx(
         math.sqrt(18281.25), rel=1e-14)

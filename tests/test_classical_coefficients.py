@@ -73,7 +73,8 @@ def test_cowper_thin_box() -> None:
 
 def test_kirsch_concentration_factors() -> None:
     """Infinite plate with a circular hole: Kt = 3 in uniaxial tension and 4 in pure
-    shear (Kirsch 1898; Timoshenko & Goodier, 3rd ed., Sec. 35); equibiaxial tension 2."""
+    shear (Kirsch 1898; Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 35,
+    section number from memory); equibiaxial tension 2."""
     assert kirsch_tension() == 3.0
     assert kirsch_pure_shear() == 4.0
     assert kirsch_hole_edge_extremes(1.0, 1.0).max == pytest.approx(2.0)
@@ -81,7 +82,8 @@ def test_kirsch_concentration_factors() -> None:
 
 def test_kirsch_hole_edge_distribution() -> None:
     """Uniaxial sigma along x: sigma_theta = sigma (1 - 2 cos 2 theta), i.e. -sigma at
-    theta = 0 and 3 sigma at 90 deg (Timoshenko & Goodier, Sec. 35); the closed-form
+    theta = 0 and 3 sigma at 90 deg (Timoshenko & Goodier, Theory of Elasticity, 3rd
+    ed., section 35, from memory); the closed-form
     extremes agree with dense sampling for a general far field, and the peak lies 90
     deg from the far-field s1 direction."""
     assert kirsch_hole_edge(0.0, 1.0) == pytest.approx(-1.0)

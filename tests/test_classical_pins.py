@@ -31,8 +31,8 @@ def test_double_shear_is_half_shear_quarter_moment() -> None:
 def test_section_stresses() -> None:
     """Round d: sigma = 32 M/(pi d^3), tau_avg = 4V/(pi d^2), tau_max = (4/3) tau_avg;
     rectangle b x h: sigma = 6 M/(b h^2), tau_avg = V/(b h), tau_max = 1.5 tau_avg
-    (Gere & Goodno, 7th ed., Secs. 5.5, 5.8, 5.9).  d = 10, V = 1000, M = 5000:
-    sigma = 50.93 and tau_avg = 12.73 (hand arithmetic)."""
+    (Gere & Goodno, Mechanics of Materials, 7th ed., Secs. 5.5, 5.8, 5.9, from memory).  d = 10, V
+    = 1000, M = 5000: sigma = 50.93 and tau_avg = 12.73 (hand arithmetic)."""
     r = round_stresses(1000.0, 5000.0, 10.0)
     assert r.sigma_b == pytest.approx(160.0 / math.pi, rel=1e-15)
     assert r.tau_avg == pytest.approx(40.0 / math.pi, rel=1e-15)

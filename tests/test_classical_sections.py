@@ -132,8 +132,8 @@ def test_first_moment_right_matches_composite_rectangles(build, closed, params) 
 
 
 def test_rectangle_q_at_centroid() -> None:
-    """Q at the neutral axis of a b x h rectangle is b h^2/8 (Gere & Goodno, 7th ed.,
-    Sec. 5.8); Q(y) = (b/2)(h^2/4 - y^2) elsewhere."""
+    """Q at the neutral axis of a b x h rectangle is b h^2/8 (Gere & Goodno, Mechanics
+    of Materials, 7th ed., Sec. 5.8, from memory); Q(y) = (b/2)(h^2/4 - y^2) elsewhere."""
     b, h = 40.0, 90.0
     r = rectangle(b, h)
     assert first_moment_above(r, 0.0) == pytest.approx(b * h**2 / 8, rel=1e-13)
@@ -258,7 +258,8 @@ def _signed(ring: np.ndarray) -> float:
 def test_principal_axes_of_rotated_rectangle() -> None:
     """A 30 x 50 rectangle (width along x) rotated by 30 deg: principal values stay
     b h^3/12 = 312500 and h b^3/12 = 112500 and the I1 axis (the rectangle's own x) is at
-    +30 deg (rotation of axes, Gere & Goodno Sec. 12.8)."""
+    +30 deg (rotation of axes, Gere & Goodno, Mechanics of Materials, 7th ed., Sec.
+    12.8, from memory)."""
     th = math.radians(30)
     rot = np.array([[math.cos(th), -math.sin(th)], [math.sin(th), math.cos(th)]])
     p = polygon_properties(polygon(rectangle(30, 50).outer @ rot.T))

@@ -28,7 +28,8 @@ def test_shear_formula_value_and_errors() -> None:
 
 def test_rectangle_profile_and_maximum() -> None:
     """Rectangle b x h: tau(y) = (3V/(2A))(1 - 4 y^2/h^2), maximum 1.5 V/A at the
-    neutral axis, zero at top and bottom (Gere & Goodno, 7th ed., Sec. 5.8)."""
+    neutral axis, zero at top and bottom (Gere & Goodno, Mechanics of Materials, 7th
+    ed., Sec. 5.8, from memory)."""
     b, h, V = 20.0, 60.0, 9000.0
     r = rectangle(b, h)
     ys = np.array([-30.0, -21.0, -7.5, 0.0, 4.0, 29.0, 30.0])
@@ -48,9 +49,9 @@ def test_outside_and_top_edge_are_zero() -> None:
 
 @pytest.mark.parametrize("n", [128, 512, 2048])
 def test_circle_maximum_converges_to_four_thirds(n: int) -> None:
-    """Solid circle: tau_max = (4/3) V/A at the neutral axis (Gere & Goodno, 7th ed.,
-    Sec. 5.9).  The n-gon converges to it at second order like its area; the bound
-    6/n^2 on the relative error is set just above the observed 4.93/n^2."""
+    """Solid circle: tau_max = (4/3) V/A at the neutral axis (Gere & Goodno, Mechanics
+    of Materials, 7th ed., Sec. 5.9, from memory).  The n-gon converges to it at second order like
+    its area; the bound 6/n^2 on the relative error is set just above the observed 4.93/n^2."""
     d, V = 2.0, 1.0
     m = max_shear_formula(circle(d, segments=n), V)
     exact = 4 / 3 * V / (math.pi * d**2 / 4)
@@ -62,7 +63,7 @@ def test_triangle_maximum_at_mid_height() -> None:
     """Triangle of base b, height h: tau(s) = 12 V s (h - s)/(b h^3) at depth s from the
     apex, maximum 3 V/(b h) = 1.5 V/A at mid-height (not at the centroid, where it is
     (4/3) V/A).  Derived from Q = b s^2 (h - s)/(3 h), I = b h^3/36, chord b s/h; result
-    as in Gere & Goodno, 7th ed., Sec. 5.8 problems (from memory)."""
+    as in Gere & Goodno, Mechanics of Materials, 7th ed., Sec. 5.8 problems (from memory)."""
     b, h, V = 2.0, 3.0, 1.0
     tri = polygon([(0, 0), (b, 0), (b / 2, h)])
     m = max_shear_formula(tri, V)
@@ -75,7 +76,7 @@ def test_triangle_maximum_at_mid_height() -> None:
 def test_i_section_web() -> None:
     """Sharp I: at the neutral axis Q = b t_f (h - t_f)/2 + t_w (h/2 - t_f)^2/2 and
     tau = V Q/(I t_w), the maximum; just below the flange tau = V b t_f (h - t_f)/(2 I t_w)
-    (Gere & Goodno, 7th ed., Sec. 5.10)."""
+    (Gere & Goodno, Mechanics of Materials, 7th ed., Sec. 5.10, from memory)."""
     h, b, tf, tw, V = 300.0, 150.0, 10.7, 7.1, 1.0e5
     s = i(h, b, tf, tw)
     ixx = i_properties(h, b, tf, tw).Ixx
@@ -98,7 +99,7 @@ def test_tube_neutral_axis() -> None:
 
 def test_direct_average_and_bearing() -> None:
     """tau = F/A single shear, F/(2A) double shear; average V/A; bearing F/(d t)
-    (Gere & Goodno, 7th ed., Sec. 1.6)."""
+    (Gere & Goodno, Mechanics of Materials, 7th ed., Sec. 1.6, from memory)."""
     assert average_shear(10.0, 4.0) == 2.5
     assert direct_shear(10.0, 4.0) == 2.5
     assert direct_shear(10.0, 4.0, planes=2) == 1.25

@@ -1,9 +1,10 @@
 """Tests for classical.statics against the published standard-case formulas.
 
 Published deflection curves are those of Gere & Goodno, Mechanics of Materials, 7th ed.,
-Appendix H, Tables H-1 (cantilevers) and H-2 (simple beams), and Roark's Formulas for
-Stress and Strain, 7th ed., Table 8.1 (propped and fixed beams); all from memory, written
-with downward deflection positive.  Shear deflections follow from the unit-load integral
+Appendix H, Tables H-1 (cantilevers) and H-2 (simple beams), and Young & Budynas,
+Roark's Formulas for Stress and Strain, 7th ed., Table 8.1 (propped and fixed beams); all from
+memory, written with downward deflection positive.  Shear deflections follow from the unit-load
+integral
 int V v / (k G A) dx (Timoshenko beam), evaluated by hand for each case.
 """
 

@@ -1,5 +1,5 @@
 """Stacked-strip sections against closed forms (common practice, any strength-of-materials
-text, e.g. Gere & Goodno, Mechanics of Materials, ch. 5 and 12)."""
+text, e.g. Gere & Goodno, Mechanics of Materials, 7th ed., ch. 5 and 12)."""
 
 from __future__ import annotations
 

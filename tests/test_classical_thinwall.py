@@ -49,7 +49,7 @@ def test_i_web_shear_flow_integrates_to_v() -> None:
 def test_i_shear_flow_values() -> None:
     """q at the neutral axis = (V/I)(b t_f h/2 + t_w h^2/8); at the flange root of each
     half flange V b t_f h/(4 I); zero at the flange tips (shear formula, Gere & Goodno,
-    7th ed., Ch. 6, from memory)."""
+    Mechanics of Materials, 7th ed., Ch. 6, from memory)."""
     V = 1.0e4
     segs = i_centreline(H, B, TF, TW)
     ixx = TW * H**3 / 12 + B * TF * H**2 / 2
@@ -65,8 +65,9 @@ def test_i_shear_flow_values() -> None:
                          [(200.0, 80.0, 10.0, 10.0), (250.0, 90.0, 14.0, 8.0)])
 def test_channel_shear_centre(h: float, b: float, tf: float, tw: float) -> None:
     """Channel: e = 3 b^2 t_f/(6 b t_f + h t_w) from the web centre line, behind the web;
-    for equal thickness 3 b^2/(h + 6 b) (Gere & Goodno, 7th ed., Ch. 6; Beer &
-    Johnston, Ch. 6; from memory).  200 x 80 equal thickness: e = 3*6400/(200 + 480) = 28.235 mm."""
+    for equal thickness 3 b^2/(h + 6 b) (Gere & Goodno, Mechanics of
+    Materials, 7th ed., Ch. 6, from memory).  200 x 80 equal thickness: e = 3*6400/(200 + 480) =
+    28.235 mm."""
     sc = shear_centre(channel_centreline(h, b, tf, tw))
     e = channel_shear_centre(h, b, tf, tw)
     assert sc.x == pytest.approx(-e, rel=1e-12)
@@ -154,7 +155,8 @@ def test_equal_angle_wall_stress_peak() -> None:
 
 
 def test_closed_cells_tube_and_box() -> None:
-    """Closed single cells (closed-cell correction, Megson Ch. 17, from memory): a thin
+    """Closed single cells (closed-cell correction, Megson, Aircraft Structures for
+    Engineering Students, 4th ed., Ch. 17, edition and chapter from memory): a thin
     tube peaks at V/(pi R t) = 2V/A on the neutral axis (360-gon centre line: 1e-4);
     a box of centre lines b x h, wall t, at 3V(2b + h)/(4 t h (h + 3b)) mid-web (cut at
     the top flange's middle, where q = 0 by symmetry; derived here by hand).  The flow's

@@ -67,8 +67,8 @@ def _direct(method: str, hole: str = "", cuts: str = "[150.0]"):
 def test_direct_shear_excess_names_the_method_and_n(method, n, words):
     """Cantilever 300 x 100 x 10 mm, tip load F = 10 kN: direct shear tau = F/(n A) with
     A = 1000 mm^2 gives 10 MPa (single, n = 1) and 5 MPa (double, n = 2) (Gere & Goodno,
-    7th ed., Sec. 1.6, from memory); the elastic shear at mid-length peaks at 1.5 V/A =
-    15 MPa (shear formula, rectangle), so the FE exceeds F/(nA) by about 1.5 n. The
+    Mechanics of Materials, 7th ed., Sec. 1.6, from memory); the elastic shear at mid-length peaks
+    at 1.5 V/A = 15 MPa (shear formula, rectangle), so the FE exceeds F/(nA) by about 1.5 n. The
     `method-excess` finding names the method and n and quotes F/(nA); it decides."""
     res = _direct(method)
     (c,) = res.cuts

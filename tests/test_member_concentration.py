@@ -108,8 +108,9 @@ def shear() -> BeamRun:
 
 
 def test_kirsch_tension(tension):
-    """Kirsch (1898); Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 35: a small
-    circular hole in an infinite plate under uniaxial tension sigma has the hoop stress
+    """Kirsch (1898); Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 35 (section
+    number from memory): a small circular hole in an infinite plate under uniaxial tension sigma
+    has the hoop stress
     sigma (1 - 2 cos 2 theta) on its edge, +3 sigma at theta = 90 deg and -sigma at 0.
 
     Plate W = 20 d (200 mm, d = 10 mm), uniform end tractions, element sizes 20, 10, 5 mm.
@@ -135,7 +136,8 @@ def test_kirsch_tension(tension):
 
 
 def test_kirsch_pure_shear(shear):
-    """Kirsch; Timoshenko & Goodier, 3rd ed., section 35 (pure shear as tension s along one
+    """Kirsch (1898); Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 35 (from
+    memory; pure shear as tension s along one
     diagonal and compression -s along the other): hoop stress -4 tau sin 2 theta, extremes
     +-4 tau at 45 degrees to the shear axes; tau_xy on the edge is 2 tau sin^2 2 theta, at
     most 2 tau. Same plate and meshes as the tension case. Measured: +4.011, -4.014 tau and
@@ -216,8 +218,10 @@ cuts = [125.0]
 
 @pytest.mark.parametrize("d_over_w", [0.2, 0.4])
 def test_finite_width_strip(d_over_w: float):
-    """Howland (1930), a central hole in a strip of width W in tension, as the polynomial
-    fit of Pilkey & Pilkey, Peterson's Stress Concentration Factors, 3rd ed., chart 4.1
+    """A central hole in a strip of width W in tension: Howland (1930), Phil. Trans. R. Soc. A 229,
+    49-86, as the polynomial fit of Pilkey &
+    Pilkey, Peterson's Stress Concentration Factors, 3rd ed. (Wiley, 2008), Chart 4.1 (fit
+    coefficients and chart number from memory)
     (classical.coefficients.kt_net_howland): Kt_net = 3.00 - 3.13 r + 3.66 r^2 - 1.53 r^3,
     r = d/W, on sigma_net = P/((W - d) t): 2.508 at d/W = 0.2, 2.236 at 0.4.
 

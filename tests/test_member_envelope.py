@@ -63,8 +63,9 @@ def test_stubby_plate_worst_point_lies_between_the_cuts(stubby):
     """The 200 x 100 x 10 plate cantilever, 20 kN as a uniform shear on the free end: the
     hand value is 1.5 V/A = 30 MPa everywhere (statics, common practice). Near the loaded
     end the uniform traction is not the parabola (Saint-Venant's principle, Timoshenko &
-    Goodier 3rd ed. section 21 again), and the FE section peak rises above VQ/(Ib) about a
-    third of a depth from the end. Computed independently here, from the stress field on
+    Goodier, Theory of Elasticity, 3rd ed., section 21 again), and the FE section peak rises above
+    VQ/(Ib) about a third of a depth from the end. Computed independently here, from the stress
+    field on
     vertical lines 0.25 mm apart (point location, not the envelope's edge crossings):
     the envelope's worst x lies within one element of that, and its ratio is above 1.05
     (measured 1.0592 at x = 172.7 on the 5 mm mesh)."""

@@ -12,7 +12,8 @@ from fem.member.hand import beam_model, hand_at_cut
 
 
 def test_cantilever_hand_values():
-    """Cantilever, tip load P = 10 kN at L = 300 (Roark 7th ed. Table 8.1 case 1a):
+    """Cantilever, tip load P = 10 kN at L = 300 (Young & Budynas, Roark's
+    Formulas for Stress and Strain, 7th ed., Table 8.1, case 1a, from memory):
     V = P, |M| = P (L - x); rectangle 10 x 100: tau_max = 1.5 V/A = 15 MPa,
     M c/I = 10000 x 200 x 50 / (10 x 100^3/12) = 120 MPa at x = 100."""
     case = parse_case(CANTILEVER.format(length=300.0, size=10.0, levels=1, cuts="[100.0]"),

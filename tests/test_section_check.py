@@ -30,7 +30,8 @@ levels = 3
 
 def test_wide_rectangle_is_unsafe_and_converged():
     """b/h = 4 at nu = 0.25: the stress at the ends of the neutral axis is 1.988 x 3V/(2A)
-    (Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 124 series; the section
+    (Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 124 series, section number
+    from memory; the series is summed in tests/test_study_verify.py; the section
     solver's own tests check the series to 0.5 %); three levels converge (GCI < 5 %)."""
     res = check(parse_case(WIDE, "wide.toml")).result
     s = res.section
@@ -66,8 +67,9 @@ levels = 3
 def test_a_sharp_root_governs_the_section_verdict():
     """I 300 x 150 x 10.7 x 7.1 without root radius: away from the corners the web shear is
     the thin-walled/VQ(It) value (headline ratio about 1), but at the sharp flange-web roots
-    the elastic stress is singular (Williams 1952: r^(pi/alpha - 1), alpha = 270 degrees)
-    and its raw peak is far above the hand value, so the singular corner governs and the
+    the elastic stress is singular (the antiplane corner solution r^(pi/alpha - 1), alpha = 270
+    degrees; common practice) and its raw peak is far above the hand value, so the singular corner
+    governs and the
     verdict is inconclusive (fem.verdict row 4), not holds."""
     res = check(parse_case(SHARP_I, "sharp-i.toml")).result
     s = res.section

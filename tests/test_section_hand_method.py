@@ -47,7 +47,8 @@ def test_forced_methods_are_kept():
 def test_thin_wall_peaks_in_the_shape_frames():
     """Thin-wall peaks on the outside dimensions of the case contract: the I's web flow at
     the neutral axis V (b t_f h/2 + t_w h^2/8)/(I t_w), h = depth - t_f, I = t_w h^3/12 +
-    b t_f h^2/2 (thin-wall I, Megson Ch. 16); the tube's 2V/A on the neutral axis (Megson
+    b t_f h^2/2 (thin-wall I, Megson, Aircraft Structures for Engineering Students, 4th ed., Ch.
+    16); the tube's 2V/A on the neutral axis (Megson
     Ch. 17, from memory); both at the points where theory puts them (the I's web centre
     line x = 0; the tube's neutral axis y = 0)."""
     V = 1.0e5

@@ -19,8 +19,9 @@ I_SECTION = dict(depth=300.0, flange_width=150.0, flange_thickness=10.7, web_thi
 
 def test_wide_rectangle_is_unsafe_with_edge_excess():
     """Rectangle b = 40, h = 10 (b/h = 4), nu = 0.25: VQ/(Ib) = 3V/(2A) on the neutral
-    axis, but the elastic stress at its ends is 1.988 x that (Timoshenko & Goodier 3rd
-    ed. §124; series in test_section_solve).  Verdict unsafe, finding edge-excess at an
+    axis, but the elastic stress at its ends is 1.988 x that (Timoshenko & Goodier,
+    Theory of Elasticity, 3rd ed., section 124, from memory; series in test_section_solve).
+    Verdict unsafe, finding edge-excess at an
     end of the axis with ratio 1.988 within 1 %; the hand side is exact:
     tau_max_hand = 1.5 V / A, tau_avg_hand = V / A."""
     r = check_section("rectangle", dict(width=40.0, depth=10.0), E, 0.25, 0.0, 1000.0, 0.5)
@@ -245,7 +246,8 @@ def test_an_unsafe_level_carries_a_deciding_finding(shape, params, method, V):
     """Whenever one mesh level compares unsafe, a finding of a deciding kind says so, so the
     study's verdict (`fem.verdict.decide`, which reads only findings) can agree with it;
     the excess is 1.988 x (wide rectangle, edge), 1.5 x V/A (deep rectangle, average;
-    Timoshenko & Goodier 3rd ed. §124 and the shear formula), a root peak (tee)."""
+    Timoshenko & Goodier, Theory of Elasticity, 3rd ed., section 124 and the shear formula), a root
+    peak (tee)."""
     from fem.verdict import is_excess
 
     r = check_section(shape, params, E, 0.3, *V, size=2.0, method=method)

@@ -20,7 +20,7 @@ def rectangle_na_series(b: float, h: float, nu: float, x: np.ndarray,
     """tau_zy(x, 0) / (3 V / (2 A)) on the neutral axis of a b x h rectangle (b along x).
 
     Saint-Venant flexure series (Timoshenko & Goodier, Theory of Elasticity, 3rd ed.,
-    §124), with c = b/2, d = h/2, lambda_n = n pi / c:
+    section 124, section number from memory), with c = b/2, d = h/2, lambda_n = n pi / c:
     tau / (3V/2A) = [d^2 + nu (x^2 + d^2 - c^2/3)
                      + nu sum_n A_n cos(lambda_n x) / cosh(lambda_n d)] / ((1 + nu) d^2),
     A_n = -4 c^2 (-1)^n / (n pi)^2 (the cosine series of c^2/3 - x^2).  It reproduces the
@@ -37,7 +37,8 @@ def rectangle_na_series(b: float, h: float, nu: float, x: np.ndarray,
 
 
 def rectangle_j_series(b: float, h: float, terms: int = 100) -> float:
-    """J of a b x h rectangle, h <= b (Timoshenko & Goodier 3rd ed. §109):
+    """J of a b x h rectangle, h <= b (Timoshenko & Goodier, Theory of
+    Elasticity, 3rd ed., section 109, from memory):
     J = (b h^3 / 3) (1 - (192 / pi^5) (h / b) sum_{n odd} tanh(n pi b / (2 h)) / n^5)."""
     b, h = max(b, h), min(b, h)
     n = np.arange(1, 2 * terms, 2)
@@ -48,8 +49,9 @@ def rectangle_j_series(b: float, h: float, terms: int = 100) -> float:
 @pytest.mark.parametrize("ratio", [0.5, 1.0, 2.0, 4.0])
 def test_rectangle_neutral_axis_against_series(ratio):
     """Rectangle b x h, h = 10, b/h = 0.5, 1, 2, 4, nu = 0.25: tau_zy at the centre and
-    at both ends of the neutral axis within 0.5 % of the series (Timoshenko & Goodier
-    3rd ed. §124, evaluated by rectangle_na_series); tau_zx = 0 on the axis by symmetry."""
+    at both ends of the neutral axis within 0.5 % of the series (Timoshenko & Goodier,
+    Theory of Elasticity, 3rd ed., section 124, evaluated by rectangle_na_series); tau_zx = 0 on
+    the axis by symmetry."""
     b, h = 10.0 * ratio, 10.0
     sol = _solve("rectangle", h / 20, 0.25, width=b, depth=h)
     pts = np.array([[0.0, 0.0], [b / 2, 0.0], [-b / 2, 0.0]])
@@ -62,7 +64,7 @@ def test_rectangle_neutral_axis_against_series(ratio):
 @pytest.mark.parametrize("ratio", [0.5, 4.0])
 def test_rectangle_nu_zero_is_the_parabola(ratio):
     """At nu = 0 the flexure stress of a rectangle is the elementary parabola at any b/h:
-    tau_zy = (3V / 2A)(1 - 4 y^2 / h^2), tau_zx = 0 (Timoshenko & Goodier §124 with nu = 0:
+    tau_zy = (3V / 2A)(1 - 4 y^2 / h^2), tau_zx = 0 (Timoshenko & Goodier, section 124, with nu = 0:
     the series term vanishes).  Checked on the neutral axis and on a vertical line, 0.5 %
     of 3V/2A."""
     b, h = 10.0 * ratio, 10.0
@@ -78,7 +80,8 @@ def test_rectangle_nu_zero_is_the_parabola(ratio):
 
 @pytest.mark.parametrize("nu", [0.0, 0.3, 0.49])
 def test_circle_centre_and_ends_of_diameter(nu):
-    """Solid circle (Timoshenko & Goodier 3rd ed. §121): tau_zy at the centre
+    """Solid circle (Timoshenko & Goodier, Theory of
+    Elasticity, 3rd ed., section 121, section number from memory): tau_zy at the centre
     (3 + 2 nu) / (2 (1 + nu)) V/A, at the ends of the neutral-axis diameter
     (1 + 2 nu) / (1 + nu) V/A; within 0.2 % for d = 10, size 0.4."""
     sol = _solve("circle", 0.4, nu, diameter=10.0)
@@ -91,17 +94,17 @@ def test_circle_centre_and_ends_of_diameter(nu):
 
 @pytest.mark.parametrize("ratio", [1.0, 2.0, 4.0])
 def test_torsion_constant_of_rectangles(ratio):
-    """J of b x h rectangles (1:1, 2:1, 4:1) against the series of Timoshenko & Goodier
-    §109 (beta = 0.1406, 0.229, 0.281 for J = beta b h^3) to 2e-4; the warping J
-    converges at order 4, so this is a loose bound for size h/10."""
+    """J of b x h rectangles (1:1, 2:1, 4:1) against the series of Timoshenko & Goodier,
+    Theory of Elasticity, 3rd ed., section 109 (beta = 0.1406, 0.229, 0.281 for J = beta b h^3) to
+    2e-4; the warping J converges at order 4, so this is a loose bound for size h/10."""
     b, h = 10.0 * ratio, 10.0
     sol = _solve("rectangle", h / 10, 0.3, width=b, depth=h)
     assert sol.J == pytest.approx(rectangle_j_series(b, h), rel=2e-4)
 
 
 def test_circle_and_tube_torsion_constant():
-    """J = pi d^4 / 32 (circle), pi (d^4 - d_i^4) / 32 (tube) (Timoshenko & Goodier
-    §§104-105: no warping); 1e-6 at size d/20."""
+    """J = pi d^4 / 32 (circle), pi (d^4 - d_i^4) / 32 (tube) (Timoshenko & Goodier,
+    Theory of Elasticity, 3rd ed., chapter 10, from memory: no warping); 1e-6 at size d/20."""
     assert _solve("circle", 0.5, 0.3, diameter=10.0).J == pytest.approx(
         math.pi * 10**4 / 32, rel=1e-6)
     assert _solve("tube", 1.0, 0.3, diameter=20.0, wall=2.0).J == pytest.approx(
@@ -111,9 +114,10 @@ def test_circle_and_tube_torsion_constant():
 def test_thin_channel_shear_centre():
     """Channel with t_f = t_w = t = 2, depth 100 (t/h = 0.02): the thin-walled shear centre
     lies e = 3 b^2 / (h + 6 b) behind the web centre line (b = 50: flange width to the web
-    centre line, h = 98 between flange centre lines; Gere, Mechanics of Materials, shear
-    centres of thin-walled open sections).  Within 1 % (measured 0.16 %; the rest is the
-    wall thickness, which the thin-walled formula neglects); on the axis of symmetry."""
+    centre line, h = 98 between flange centre lines; Gere & Goodno, Mechanics of Materials, 7th
+    ed., ch. 6, shear centres of thin-walled open sections, from memory).  Within 1 % (measured
+    0.16 %; the rest is the wall thickness, which the thin-walled formula neglects); on the axis of
+    symmetry."""
     t = 2.0
     sol = _solve("channel", 1.0, 0.3, depth=100.0, flange_width=50.0 + t / 2,
                  flange_thickness=t, web_thickness=t)
@@ -125,9 +129,9 @@ def test_thin_channel_shear_centre():
 def test_thin_angle_and_tee_shear_centres():
     """Thin-walled theory: the shear centre of an angle is the crossing of the leg centre
     lines, (t/2, t/2); of a tee the crossing of flange and web centre lines,
-    (0, depth - t/2) (Gere, Mechanics of Materials, shear centres of thin-walled open
-    sections).  For t = 1 on 60 x 40 legs within 0.05 t (measured 0.02 t); tee within
-    0.1 t.  The angle has Ixy != 0: the coupled bending is exercised."""
+    (0, depth - t/2) (Gere & Goodno, Mechanics of Materials, 7th ed., ch. 6, shear centres of thin-
+    walled open sections, from memory).  For t = 1 on 60 x 40 legs within 0.05 t (measured 0.02 t);
+    tee within 0.1 t.  The angle has Ixy != 0: the coupled bending is exercised."""
     t = 1.0
     ang = _solve("angle", 0.5, 0.3, leg_x=60.0, leg_y=40.0, thickness=t)
     assert np.hypot(ang.shear_centre[0] - t / 2, ang.shear_centre[1] - t / 2) < 0.05 * t
@@ -162,8 +166,8 @@ def test_resultant_equals_applied_shear():
 def test_energy_shear_coefficients():
     """Energy shear coefficient k = V^2 / (A int |tau|^2 dA): rectangle at nu = 0, 5/6
     (parabola); circle at nu = 0.3, 6 (1 + nu)^2 / (7 + 14 nu + 8 nu^2) (the Timoshenko &
-    Goodier §121 stresses integrated over the disc; 6/7 at nu = 0, as Cowper's value
-    there).  To 1e-5."""
+    Goodier, Theory of Elasticity, 3rd ed., section 121 stresses integrated over the disc; 6/7 at
+    nu = 0, as Cowper's value there).  To 1e-5."""
     rect = _solve("rectangle", 1.0, 0.0, width=10.0, depth=20.0)
     assert rect.shear_coefficients[1] == pytest.approx(5 / 6, rel=1e-5)
     nu = 0.3
@@ -186,8 +190,8 @@ def _circle_l2_error(size: float, order: int, nu: float = 0.3) -> tuple[float, f
 
 
 def test_convergence_rates_circle():
-    """Circle, exact flexure stresses of Timoshenko & Goodier §121,
-    tau_zy = (3+2nu)/(8(1+nu)) V/I (R^2 - y^2 - (1-2nu)/(3+2nu) x^2),
+    """Circle, exact flexure stresses of Timoshenko & Goodier, Theory of Elasticity,
+    3rd ed., section 121, tau_zy = (3+2nu)/(8(1+nu)) V/I (R^2 - y^2 - (1-2nu)/(3+2nu) x^2),
     tau_zx = -(1+2nu)/(4(1+nu)) V x y / I.  Log-log slope of the relative L2 stress error
     against the element size: P2 measured 2.05 (asserted >= 1.8), P1 measured 0.98
     (asserted >= 0.9); the P2 torsion constant J = pi d^4/32 converges at order 4

@@ -158,8 +158,9 @@ def test_threshold_interpolates_linearly():
 
 def test_stub_length_sweep_excess_falls_and_threshold(local):
     """The FE excess over the shear formula falls as the stub gets longer: the load's
-    curvature (q'' ~ 1/L^2) disturbs plane sections less (Timoshenko & Goodier, 3rd ed.,
-    section 23: the corrections to elementary beam theory for distributed loads are of
+    curvature (q'' ~ 1/L^2) disturbs plane sections less (Timoshenko & Goodier, Theory of
+    Elasticity, 3rd ed., section 23: the corrections to elementary beam theory for distributed
+    loads are of
     order (h/L)^2). Measured here: max ratio 1.54, 1.30, 1.11, 1.05, 1.03 at L = 50..250;
     it crosses 1.05 between 150 and 250 mm, about two depths."""
     ok = [r for r in local.rows if r["status"] == "ok"]

@@ -29,6 +29,7 @@ h1{font-size:30px;line-height:1.2;margin:6px 0 4px}
 border-radius:4px;color:#fff}
 .verdict-unsafe{background:#a51d2d}.verdict-holds{background:#26734d}
 .verdict-inconclusive{background:#8a5a00}
+.verdict-failed{background:#a51d2d}.verdict-passed{background:#26734d}
 p.verdict-unsafe,p.verdict-holds,p.verdict-inconclusive{color:#fff;padding:12px 16px;
 border-radius:6px;font-size:16px}
 .caution{border-left:4px solid #c77700;background:#fff6e5;padding:10px 14px;margin:16px 0;

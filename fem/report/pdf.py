@@ -58,7 +58,8 @@ MUTE = colors.HexColor("#5b6770")
 RULE = colors.HexColor("#c9d0d5")
 SOFT = colors.HexColor("#f1f3f5")
 MARK = colors.HexColor("#fbeaea")
-VERDICT = {"unsafe": "#a51d2d", "holds": "#26734d", "inconclusive": "#8a5a00"}
+VERDICT = {"unsafe": "#a51d2d", "holds": "#26734d", "inconclusive": "#8a5a00",
+           "failed": "#a51d2d", "passed": "#26734d"}   # the last two: verification reports
 CAUTION_INK = colors.HexColor("#7a4e00")
 
 
