@@ -654,3 +654,37 @@ def test_hole_radii_are_banded_for_shared_size_fields():
     holes = [Hole((0.0, 0.0), r) for r in (3.0, 3.5, 5.0, 2.5, 3.0 * RADIUS_BAND)]
     assert _hole_groups(holes) == [[3, 0], [1, 4], [2]]   # 2.5-3.0, 3.5-3.75, 5.0
     assert _hole_groups([]) == []
+
+
+def test_a_section_real_dof_count_is_checked_before_assembly(monkeypatch, tmp_path, capsys):
+    """Sections too: with the estimate beaten (simulated: it says 1 dof) the real mesh of a
+    polygon section is counted before the warping solve and refused over mesh.max_dofs."""
+    import fem.case.parse
+    import fem.section.level
+    from fem.cli import main
+
+    monkeypatch.setattr(fem.case.parse, "check_size", lambda case: None)
+    monkeypatch.setattr(fem.section.level, "solve_section",
+                        lambda *a, **k: pytest.fail("assembly must not start"))
+    case = tmp_path / "s.toml"
+    case.write_text("""
+schema = 1
+name = "s"
+kind = "section"
+[material]
+E = 200000.0
+nu = 0.3
+[geometry]
+shape = "polygon"
+points = [[0.0, 0.0], [40.0, 0.0], [40.0, 5.0], [5.0, 5.0], [5.0, 60.0], [0.0, 60.0]]
+[loads]
+shear = [0.0, 1000.0]
+[mesh]
+size = 1.0
+levels = 1
+max_dofs = 50
+""", encoding="utf-8")
+    assert main(["run", str(case), "--out", str(tmp_path / "o"), "--quiet"]) == 2
+    err = capsys.readouterr().err
+    assert "mesh.max_dofs" in err and "dofs (the estimate was" in err
+    assert "above the limit 50" in err

@@ -11,9 +11,10 @@ from __future__ import annotations
 
 from collections.abc import Callable
 from dataclasses import dataclass
+from functools import partial
 
 from fem.case.model import Case
-from fem.case.sizing import level_size
+from fem.case.sizing import check_real_dofs, level_size
 from fem.convergence import acceptance, gci_study, is_singular
 from fem.results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
 from fem.section.level import SectionCheck, check_section
@@ -46,7 +47,8 @@ def _levels(case: Case, progress: Callable[[str], None] | None) -> list[SectionC
                                  size=size, order=case.mesh.order, method=case.check.method,
                                  tolerance=case.check.tolerance,
                                  hand_value=case.check.hand_value,
-                                 joints=case.check.joints))
+                                 joints=case.check.joints,
+                                 check_dofs=partial(check_real_dofs, case, size=size)))
     return out
 
 

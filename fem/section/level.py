@@ -35,7 +35,7 @@ from __future__ import annotations
 
 import math
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import asdict, dataclass, field, replace
 
 import numpy as np
@@ -386,7 +386,8 @@ def _findings(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandS
 def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: float,
                   size: float, order: int = 2, method: str = "auto",
                   tolerance: float = 0.05, hand_value: float | None = None,
-                  joints: Sequence[Joint] = ()) -> SectionCheck:
+                  joints: Sequence[Joint] = (),
+                  check_dofs: Callable[[int], None] | None = None) -> SectionCheck:
     """Solve a section for shear (Vx, Vy) through its shear centre and compare with hand.
 
     The recipe: choose the hand method -> mesh and solve -> FE peaks (`_fe_peaks`) ->
@@ -414,6 +415,9 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     joints
         Joint lines (:class:`fem.case.model.Joint`); none given on a ``built-up``
         section -> every plate interface (:func:`fem.section.joints.default_joints`).
+    check_dofs
+        Called with the real dof count of the mesh before anything is assembled (the size
+        guard on the real model, `fem.case.sizing.check_real_dofs`); it raises to stop.
 
     Returns
     -------
@@ -433,6 +437,8 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     drawn = drawn_section(SectionGeometry(shape, params))
     geom = replace(section_shape(drawn.shape, **drawn.params), shape=shape)
     smesh = mesh_section(geom, size, order)
+    if check_dofs is not None:   # the real count (one dof a node), before any assembly
+        check_dofs(smesh.nodes)
     sol = solve_section(smesh, nu)
     t0 = time.perf_counter()
     Vs = _solved_shear(choice.method, Vx, Vy)
