@@ -171,7 +171,8 @@ def test_reference_values_follow_from_their_closed_forms():
     Saint-Venant rectangle series (Timoshenko & Goodier, Theory of Elasticity, 3rd ed.,
     section 124, section number from memory), which also gives the book's table 1.033, 1.126,
     1.396, 1.988 at nu = 1/4 (table from memory); the circle's (3 + 2 nu)/(2 (1 + nu)) V/A;
-    the torsion constants; the cantilever and deep-beam stresses; Williams' exponent."""
+    the torsion constants; the cantilever and deep-beam stresses; the cantilever tip
+    deflection (Cowper 1966); Williams' exponent."""
     from fem.convergence import williams_lambda
 
     for bh, table in ((0.5, 1.033), (1, 1.126), (2, 1.396), (4, 1.988)):
@@ -203,6 +204,10 @@ def test_reference_values_follow_from_their_closed_forms():
     assert value("cantilever-bending-stress") == pytest.approx(
         10000 * 150 * 50 / (10 * 100**3 / 12), rel=1e-12)
     assert value("ell-corner-williams") == pytest.approx(williams_lambda(270.0) - 1, abs=1e-6)
+    i_tip, k = 10 * 100**3 / 12, 10 * 1.3 / (12 + 11 * 0.3)   # Cowper (1966), rectangle
+    assert value("cantilever-tip-deflection") == pytest.approx(
+        -(1000 * 1000**3 / (3 * 200000 * i_tip) + 1000 * 1000 / (k * 200000 / 2.6 * 1000)),
+        rel=1e-9)
     r = 0.2
     assert value("strip-hole-tension-howland") == pytest.approx(
         (3.00 - 3.13 * r + 3.66 * r**2 - 1.53 * r**3) * 100000 / (160 * 10), rel=1e-9)

@@ -107,7 +107,7 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
         quantities[f"corner ({s.corner.at[0]:g}, {s.corner.at[1]:g}) von_mises"] = study(
             [lv.size for lv in levels], s.values)
     findings += [_singular_finding(case, s) for s in singular]
-    gov = _governing(cuts, envelope)
+    gov = _governing(cuts, envelope, conc)
     converged = len(levels) >= 2 and quantities[gov.name]["converged"]
     findings += _convergence_findings(case, levels, quantities[gov.name], gov)
     tol = case.check.tolerance
@@ -278,18 +278,25 @@ class _Governing:
     what: str               # in words, for results.json and the not-converged finding
 
 
-def _governing(cuts: list[CutResult], env: Envelope) -> _Governing:
+def _governing(cuts: list[CutResult], env: Envelope,
+               conc: list[Concentration]) -> _Governing:
     """The governing quantity: the shear at the worst place on the finest mesh, the worst
     cut or, where the envelope's worst point between the cuts has the larger ratio (by more
     than ENVELOPE_MARGIN), the FE shear there; with no hand shear at any cut (a member in
-    pure tension) the principal-stress peak."""
+    pure tension) the principal-stress peak. A worst point within a hole's, fillet's or
+    corner's reach is that feature's peak, judged by its own concentration study and
+    finding: there the worst cut stays the governing figure."""
     g = int(np.argmax([-1.0 if c.ratio is None else c.ratio for c in cuts]))
     c = cuts[g]
     if all(c.ratio is None for c in cuts):
         return _Governing("peak principal", (c.x, c.y_at_tau_max_fe),
                           "peak max principal stress (no hand shear at any cut)")
     w = env.worst
-    if w is not None and w.ratio is not None and w.ratio > c.ratio * (1 + ENVELOPE_MARGIN):
+    at_feature = w is not None and any(
+        math.hypot(w.x - k.feature.centre[0], w.y - k.feature.centre[1]) <= k.feature.reach
+        for k in conc)
+    if (w is not None and w.ratio is not None and not at_feature
+            and w.ratio > c.ratio * (1 + ENVELOPE_MARGIN)):
         return _Governing(ENVELOPE_WORST, (w.x, w.y),
                           f"tau_fe at the envelope's worst point x = {w.x:g}")
     return _Governing(f"cut x={c.x:g} tau_max", (c.x, c.y_at_tau_max_fe),
