@@ -25,6 +25,6 @@ def test_hand_then_run_into_defaults_leaves_two_consistent_folders(tmp_path: Pat
     run = json.loads((run_dir / "results.json").read_text())
     assert hand["mesh"]["dofs"] is None and "hand side only" in hand["note"]
     assert run["mesh"]["dofs"] > 0 and "note" not in run
-    assert sorted(p.name for p in hand_dir.iterdir()) == ["results.json"]
+    assert sorted(p.name for p in hand_dir.iterdir()) == ["manifest.json", "results.json"]
     assert hand["case"] == run["case"] == "stub-cantilever"
     assert capsys.readouterr().out == ""
