@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import os
+import shutil
 import signal
 import subprocess
 import sys
@@ -403,3 +404,19 @@ def test_sweep_workers_end_with_the_main_process(stub, tmp_path, sig):
         for w in workers | _children(proc.pid):   # a failed run must not leave orphans
             if _alive(w):
                 os.kill(w, signal.SIGKILL)
+
+
+def test_a_sweep_of_a_drawn_case_finds_its_drawing(tmp_path: Path):
+    """A case whose outline comes from a DXF (`geometry.file`, relative to the case file)
+    sweeps like any other: each point is named after its case.toml in the sweep folder,
+    but its drawing is found beside the base case (before, every point failed with
+    "no such file")."""
+    case = tmp_path / "case" / "haunched-bracket.toml"
+    (case.parent / "drawings").mkdir(parents=True)
+    shutil.copy(ROOT / "cases" / "haunched-bracket.toml", case)
+    shutil.copy(ROOT / "cases" / "drawings" / "haunched-bracket.dxf", case.parent / "drawings")
+    rep = run_sweep(case, [parse_vary("material.thickness=10:12:2")], tmp_path / "sw",
+                    workers=1, levels=1, quiet=True)
+    assert [r["status"] for r in rep.rows] == ["ok", "ok"], rep.failed
+    for p in (tmp_path / "sw").rglob("*.toml"):   # no machine path in what the sweep wrote
+        assert str(tmp_path) not in p.read_text(encoding="utf-8")

@@ -130,10 +130,14 @@ def decode_case(raw: bytes, name: str) -> str:
         raise CaseError(name, "", "cannot read the file: it is not UTF-8 text") from None
 
 
-def parse_case(text: str, file: str = "<case>") -> Case:
-    """Parse TOML text into a validated `Case`; a `CaseError` names the line where it can."""
+def parse_case(text: str, file: str = "<case>", folder: str | Path | None = None) -> Case:
+    """Parse TOML text into a validated `Case`; a `CaseError` names the line where it can.
+
+    `folder` is where files the case names (`geometry.file`) are found; by default the
+    case file's own folder. A sweep point, named after its case.toml in the sweep folder,
+    passes the base case's folder."""
     try:
-        return _parse(text, file)
+        return _parse(text, file, folder)
     except CaseError as exc:
         if exc.line is not None or not exc.key:
             raise
@@ -143,7 +147,7 @@ def parse_case(text: str, file: str = "<case>") -> Case:
         raise CaseError(exc.file, exc.key, exc.message, line) from None
 
 
-def _parse(text: str, file: str) -> Case:
+def _parse(text: str, file: str, folder: str | Path | None = None) -> Case:
     text = text.removeprefix("\ufeff")   # a byte-order mark read as text
     if len(text) > MAX_FILE_BYTES:
         raise CaseError(file, "", f"is larger than {MAX_FILE_BYTES // 2**20} MB, the limit "
@@ -181,7 +185,7 @@ def _parse(text: str, file: str) -> Case:
                                                "sections refine uniformly")
     check = _check(top.table("check", None), kind)
     if kind == "beam":
-        geometry = _beam_geometry(top.table("geometry"), units)
+        geometry = _beam_geometry(top.table("geometry"), units, folder)
         _at_most(top, "supports", top.data.get("supports"), MAX_PLACEMENTS, "entries")
         _at_most(top, "loads", top.data.get("loads"), MAX_PLACEMENTS, "entries")
         supports = tuple(_support(t) for t in top.tables("supports"))
@@ -194,7 +198,7 @@ def _parse(text: str, file: str) -> Case:
             raise top.error("loads", "every load is zero; give at least one non-zero force")
         shear = (0.0, 0.0)
     else:
-        geometry = _section_geometry(top.table("geometry"), units)
+        geometry = _section_geometry(top.table("geometry"), units, folder)
         lt = top.table("loads")
         shear = _force(lt, "shear")
         lt.close()
@@ -315,7 +319,7 @@ def _distinct_cuts(t: Table, cuts: tuple[float, ...]) -> tuple[float, ...]:
     return cuts
 
 
-def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
+def _beam_geometry(t: Table, units: Units, folder: str | Path | None = None) -> BeamGeometry:
     shape = t.text("shape", allowed=("rectangle", "polygon", "drawing"))
     length = depth = 0.0
     points: tuple[tuple[float, float], ...] = ()
@@ -328,7 +332,7 @@ def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
         depth = t.number("depth", low=0.0, low_open=True)
     else:
         if shape == "drawing":
-            d = _drawing(t, units)
+            d = _drawing(t, units, folder)
             ring, source = d.outline, d.source
             holes = [Hole(center=(x, y), radius=r) for x, y, r in d.circles]
             openings = d.openings + openings
@@ -375,12 +379,14 @@ def _beam_geometry(t: Table, units: Units) -> BeamGeometry:
                         bulges=bulges, openings=openings, drawing=source)
 
 
-def _drawing(t: Table, units: Units) -> Drawing:
-    """geometry.file (relative to the case file's folder) and the optional layer."""
+def _drawing(t: Table, units: Units, folder: str | Path | None = None) -> Drawing:
+    """geometry.file (relative to `folder`, by default the case file's folder) and the
+    optional layer."""
     name = t.text("file")
     layer = t.text("layer", None)
-    folder = Path(t.file).parent if t.file and not t.file.startswith("<") else Path(".")
-    return read_drawing(folder / name, name, layer, units.length, t.file)
+    if folder is None:
+        folder = Path(t.file).parent if t.file and not t.file.startswith("<") else Path(".")
+    return read_drawing(Path(folder) / name, name, layer, units.length, t.file)
 
 
 def _openings(t: Table) -> tuple[tuple[tuple[float, float, float], ...], ...]:
@@ -448,10 +454,11 @@ def _force(t: Table, key: str) -> tuple[float, float]:
     return f
 
 
-def _section_geometry(t: Table, units: Units) -> SectionGeometry:
+def _section_geometry(t: Table, units: Units,
+                      folder: str | Path | None = None) -> SectionGeometry:
     shape = t.text("shape", allowed=(*SECTION_SHAPES, "drawing"))
     if shape == "drawing":   # a drawn section is a polygon of arcs and lines, with holes
-        d = _drawing(t, units)
+        d = _drawing(t, units, folder)
         t.close()
         holes = [_vertices(o) for o in d.openings]
         holes += [[(x + r, y, 1.0), (x - r, y, 1.0)] for x, y, r in d.circles]

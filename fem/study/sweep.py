@@ -111,12 +111,13 @@ def make_points(base: dict[str, Any], varies: list[Vary], file: str = "<case>",
     return out
 
 
-def run_point(text: str, file: str) -> dict[str, Any]:
+def run_point(text: str, file: str, folder: str | None = None) -> dict[str, Any]:
     """Check one point (in a worker); return ``{"status": "ok", "data": results}`` or
-    ``{"status": "failed", "message": ...}``. Never raises for a bad point."""
+    ``{"status": "failed", "message": ...}``. Never raises for a bad point. `folder` is the
+    base case's folder, where a drawing it names is found."""
     with POINT_LOCK:
         try:
-            return {"status": "ok", "data": check(parse_case(text, file)).data}
+            return {"status": "ok", "data": check(parse_case(text, file, folder)).data}
         except CaseError as exc:
             return {"status": "failed", "message": str(exc)}
         except SolveError as exc:
@@ -173,13 +174,13 @@ def _label(out: Path, p: Point) -> str:
 
 
 def _run_local(todo: list[Point], out: Path, workers: int | None,
-               done: Callable[[Point, dict[str, Any]], None]) -> None:
+               done: Callable[[Point, dict[str, Any]], None], folder: str | None = None) -> None:
     from concurrent.futures import as_completed
 
     pool = process_pool(min(workers or os.cpu_count() or 1, len(todo)))
     try:
         with terminate_as_interrupt():   # SIGTERM, like SIGINT, ends the workers too
-            futures = {pool.submit(run_point, p.text, _label(out, p)): p for p in todo}
+            futures = {pool.submit(run_point, p.text, _label(out, p), folder): p for p in todo}
             for fut in as_completed(futures):
                 done(futures[fut], fut.result())
     except BaseException:
@@ -314,7 +315,7 @@ def run_sweep(case_path: str | Path, varies: list[Vary], out: str | Path,
             _run_dask(todo, out, scheduler, ident["case_sha256"][:12], done,
                       scheduler_deadline)
         elif todo:
-            _run_local(todo, out, workers, done)
+            _run_local(todo, out, workers, done, str(case_path.parent.resolve()))
     finally:
         bar.close()
     order = {p.id: i for i, p in enumerate(points)}
