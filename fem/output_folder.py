@@ -32,6 +32,7 @@ from contextlib import contextmanager
 from pathlib import Path
 
 from fem.errors import CaseError
+from fem.results import atomic_write
 
 __all__ = ["staged_output", "check_writable", "recover", "verify_outputs", "MANIFEST",
            "JOURNAL"]
@@ -82,20 +83,6 @@ def _sha256(path: Path) -> str:
     return h.hexdigest()
 
 
-def _write_atomic(path: Path, data: bytes) -> None:
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=path.parent)
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-
-
 def _read_json(path: Path) -> dict | None:
     try:
         d = json.loads(path.read_text(encoding="utf-8"))
@@ -115,10 +102,10 @@ def _commit(out: Path, stage: Path) -> None:
                    key=lambda n: (n == "results.json", n))
     files = {n: {"bytes": (stage / n).stat().st_size, "sha256": _sha256(stage / n)}
              for n in names}
-    _write_atomic(stage / MANIFEST, json.dumps({"schema": 1, "files": files},
+    atomic_write(stage / MANIFEST, json.dumps({"schema": 1, "files": files},
                                                indent=1).encode("utf-8"))
     stale = sorted(set(_manifest_files(out)) - set(files) - {MANIFEST})
-    _write_atomic(out / JOURNAL, json.dumps({"stage": stage.name, "order": names,
+    atomic_write(out / JOURNAL, json.dumps({"stage": stage.name, "order": names,
                                              "remove": stale}).encode("utf-8"))
     _finish(out, stage, names, stale)
 

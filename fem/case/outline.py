@@ -25,8 +25,8 @@ from fem.errors import CaseError
 __all__ = [
     "Patch", "Corner", "Strip", "outline_polygon", "domain_polygon", "cutout_polygon",
     "resolve_patch", "patches", "cut_strips", "reentrant_corners", "validate_geometry",
-    "bounding_box", "check_mechanism", "ARC_SEGMENTS", "CORNER_ANGLE", "is_sharp_corner",
-    "curved_edges",
+    "bounding_box", "member_depth", "check_mechanism", "ARC_SEGMENTS", "CORNER_ANGLE",
+    "is_sharp_corner", "curved_edges",
 ]
 
 ARC_SEGMENTS = 64  # polyline segments per quarter circle in the shapely model
@@ -155,6 +155,13 @@ def domain_polygon(g: BeamGeometry) -> Polygon:
     removed += [ring_polygon(o) for o in g.openings]
     dom = outline.difference(unary_union(removed)) if removed else outline
     return dom
+
+
+def member_depth(g: BeamGeometry) -> float:
+    """The member's depth: the height of its material's bounding box (the length every
+    depth-relative size and zone is measured in)."""
+    bounds = domain_polygon(g).bounds
+    return bounds[3] - bounds[1]
 
 
 def bounding_box(g: BeamGeometry) -> tuple[float, float, float, float]:

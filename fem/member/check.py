@@ -16,7 +16,7 @@ from typing import Any
 import numpy as np
 
 from fem.case.model import Case
-from fem.case.outline import Corner, domain_polygon, reentrant_corners
+from fem.case.outline import Corner, domain_polygon, member_depth, reentrant_corners
 from fem.case.sizing import estimate_dofs, level_size
 from fem.convergence import acceptance, gci_study, is_singular
 from fem.errors import SolveError
@@ -89,7 +89,7 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     cuts, peak = cut_results(fin), peak_result(fin)
     zones = excluded_zones(case, fin.mm.supports, fin.mm.loads)
     findings = beam_findings(case, fin, cuts, peak, zones)
-    depth = _depth(case)
+    depth = member_depth(case.beam)
     corners = reentrant_corners(domain_polygon(case.beam))
     env_zones = zones + _corner_zones(corners, depth)
     envelope = member_envelope(case, fin, env_zones)
@@ -212,11 +212,6 @@ def _quantities(levels: list[Level], cuts: list[CutResult],
     for name in ("tau", "von_mises", "principal"):
         out[f"peak {name}"] = study(sizes, [lv.peaks[name][0] for lv in levels])
     return out
-
-
-def _depth(case: Case) -> float:
-    dom = domain_polygon(case.beam)
-    return dom.bounds[3] - dom.bounds[1]
 
 
 def _corner_peaks(level: Level, corners: list[Corner], radius: float) -> list[float]:

@@ -16,7 +16,7 @@ from __future__ import annotations
 import numpy as np
 
 from fem.case.model import Case
-from fem.case.outline import domain_polygon
+from fem.case.outline import member_depth
 from fem.member.hand import total_load
 from fem.member.level import ExcludedZone, Level, nearest_station
 from fem.member.recovery import von_mises
@@ -90,8 +90,7 @@ def beam_findings(case: Case, level: Level, cuts: list[CutResult], peak: Peak,
     u = case.units
     L, S = u.length, u.stress
     tol = case.check.tolerance
-    dom = domain_polygon(case.beam)
-    depth = dom.bounds[3] - dom.bounds[1]
+    depth = member_depth(case.beam)
     st = stations(case, level)
     method = case.check.method
     out: list[Finding] = []
@@ -193,8 +192,7 @@ def _bearing(case: Case, level: Level, cuts: list[CutResult]) -> list[Finding]:
     f = level.field
     S, L = case.units.stress, case.units.length
     governing = max((c.tau_max_hand for c in cuts), default=0.0)
-    dom = domain_polygon(case.beam)
-    depth = dom.bounds[3] - dom.bounds[1]  # the band under a patch: at most a tenth of it
+    depth = member_depth(case.beam)  # the band under a patch: at most a tenth of it
     patches = list(zip(level.mm.supports, case.supports, strict=True))
     patches += list(zip(level.mm.loads, case.loads, strict=True))
     for p, spec in patches:

@@ -73,6 +73,7 @@ from fem.case.outline import (
     ARC_SEGMENTS,
     cut_strips,
     domain_polygon,
+    member_depth,
     outline_polygon,
     reentrant_corners,
 )
@@ -422,7 +423,7 @@ def concentrations(case: Case, levels: list[Level], zones: list[ExcludedZone],
 
     hand_scale = max([c.tau_method for c in fin.cuts_hand]
                      + [c.sigma_x_max for c in fin.cuts_hand] + [0.0])
-    depth = dom.bounds[3] - dom.bounds[1]
+    depth = member_depth(case.beam)
     stress_ref = max(hand_scale, sum(float(np.hypot(*ld.force)) for ld in case.loads)
                      / (case.material.thickness * depth))
     out = []

@@ -15,7 +15,7 @@ import numpy as np
 
 from classical.beam1d import BeamModel
 from fem.case.model import Case
-from fem.case.outline import Patch, cut_strips, domain_polygon
+from fem.case.outline import Patch, cut_strips, domain_polygon, member_depth
 from fem.member.cuts import CutFE, automatic_cuts, sample_cut
 from fem.member.frame import Frame
 from fem.member.hand import CutHand, hand_at_cut, member_model
@@ -73,8 +73,7 @@ def cut_positions(case: Case, sup: list[Patch], lds: list[Patch]) -> list[float]
 
 def excluded_zones(case: Case, sup: list[Patch], lds: list[Patch]) -> list[ExcludedZone]:
     """Point patches and the ends of clamped or loaded stretches, radius a tenth depth."""
-    dom = domain_polygon(case.beam)
-    depth = dom.bounds[3] - dom.bounds[1]
+    depth = member_depth(case.beam)
     r = min(0.1 * depth, 2.0 * case.mesh.size)
     zones = []
     for p, s in zip(sup, case.supports, strict=True):

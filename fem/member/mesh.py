@@ -18,12 +18,13 @@ import gmsh
 import numpy as np
 from skfem import MeshTri1, MeshTri2
 
-from fem.case.model import Case
+from fem.case.model import BeamGeometry, Case
 from fem.case.outline import (
     Patch,
     check_mechanism,
     curved_edges,
     domain_polygon,
+    member_depth,
     patches,
     reentrant_corners,
 )
@@ -65,15 +66,15 @@ class MemberMesh:
 
 
 def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch], fr: Frame,
-                 background: Callable[[Frame], int] | None = None) -> None:
+                 gf: BeamGeometry, background: Callable[[Frame], int] | None = None) -> None:
     """Distance/threshold refinement at patch ends, holes, fillets and corners.
 
-    Everything is worked out in case units and handed to gmsh in the frame `fr`."""
+    Everything is worked out in case units and handed to gmsh in the frame `fr`; `gf` is
+    the geometry in that frame (as built)."""
     g = case.beam
     fields = []
     scale = size / case.mesh.size
     f = gmsh.model.mesh.field
-    gf = fr.geometry(g)
 
     def threshold(points: list[tuple[float, float]] | None, curves: list[int] | None,
                   fine: float, dmin: float, dmax: float) -> None:
@@ -97,7 +98,7 @@ def _size_fields(case: Case, size: float, sup: list[Patch], lds: list[Patch], fr
         f.setNumber(t, "DistMax", fr.length(dmax))
         fields.append(t)
 
-    depth = _depth(case)
+    depth = member_depth(case.beam)
     ends = [p for patch in sup + lds for p in patch.ends]
     if ends:
         threshold(ends, None, size / 4, 0.0, 0.25 * depth)
@@ -174,11 +175,6 @@ def _phys_tag(dim: int, name: str) -> int:
     raise KeyError(name)
 
 
-def _depth(case: Case) -> float:
-    x0, y0, x1, y1 = domain_polygon(case.beam).bounds
-    return y1 - y0
-
-
 def mesh_member(case: Case, size: float | None = None,
                 background: Callable[[Frame], int] | None = None) -> MemberMesh:
     """Mesh the member at element size `size` (default: mesh.size) and hand it over.
@@ -209,7 +205,7 @@ def mesh_member(case: Case, size: float | None = None,
         try:
             surf_names = build_member(gf, sup_f, lds_f)
             groups = name_boundaries(gf, sup_f, lds_f, tol)
-            _size_fields(case, size, sup, lds, fr, background)
+            _size_fields(case, size, sup, lds, fr, gf, background)
             gmsh.option.setNumber("Mesh.Algorithm", 6)
             gmsh.model.mesh.generate(2)
             # the real count, before the second-order pass, the hand-over and assembly: an

@@ -22,6 +22,7 @@ import numpy as np  # noqa: E402
 from matplotlib.ticker import FuncFormatter, NullFormatter  # noqa: E402
 
 from fem.report.member_figures import FE_COLOUR, HAND_COLOUR, number  # noqa: E402
+from fem.report.png import save_png  # noqa: E402
 from fem.results import ConvergenceResult  # noqa: E402
 
 __all__ = ["convergence_figure", "has_study", "quantity_label"]
@@ -105,10 +106,7 @@ def convergence_figure(conv: ConvergenceResult, units: dict[str, str], path: Pat
     a1.set_title(f"Governing figure: GCI {gci}, "
                  f"{'converged' if conv.converged else 'not converged'}", loc="left",
                  fontsize=10, fontweight="bold")
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
+    return save_png(fig, path)
 
 
 def _relative_panel(ax: Any, level_sizes: list[float],

@@ -34,6 +34,7 @@ from fem.case.outline import (  # noqa: E402
     reentrant_corners,
 )
 from fem.member.level import Level, excluded_zones  # noqa: E402
+from fem.report.png import save_png  # noqa: E402
 from fem.results import CutResult, Envelope  # noqa: E402
 
 __all__ = ["contour_figure", "profile_figure", "ratio_along_member_figure",
@@ -227,9 +228,7 @@ def contour_figure(case: Case, level: Level, cuts: list[CutResult], quantity: st
         note += " (the arrow on the colour bar: larger values there)"
     fig.text(0.5, 0.06 / fig_h, note, ha="center", va="bottom", fontsize=7, color="#555555")
     fig.tight_layout(rect=(0, 0.55 / fig_h, 1, 1))
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
+    return save_png(fig, path, tight=False)
 
 
 def _per_strip(y: np.ndarray, values: list[float], strips) -> list[tuple[np.ndarray, ...]]:
@@ -295,9 +294,7 @@ def profile_figure(case: Case, cut: CutResult, path: Path) -> Path:
     fig.suptitle(f"Cut at x = {cut.x:g} {L}: {ratio}", x=0.01, ha="left", fontsize=11,
                  fontweight="bold")
     _legend_below(fig, [a1, a2])
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
+    return save_png(fig, path, tight=False)
 
 
 def _legend_below(fig, axes, ncol: int = 3) -> None:
@@ -353,9 +350,7 @@ def profiles_figure(case: Case, cuts: list[CutResult], path: Path) -> Path:
     fig.suptitle("Shear stress over the depth at each cut, FE against hand", x=0.01,
                  ha="left", fontsize=11, fontweight="bold")
     _legend_below(fig, list(axes.ravel()))
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return Path(path)
+    return save_png(fig, path, tight=False)
 
 
 def mesh_figure(case: Case, level: Level, path: Path) -> Path:
@@ -383,10 +378,7 @@ def mesh_figure(case: Case, level: Level, path: Path) -> Path:
                  "away from refinements", loc="left", fontsize=10.5, fontweight="bold")
     for side in ("top", "right"):
         ax.spines[side].set_visible(False)
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return Path(path)
+    return save_png(fig, path)
 
 
 def _features(case: Case) -> list[tuple[str, float, float, str]]:
@@ -491,10 +483,7 @@ def ratio_along_member_figure(case: Case, envelope: Envelope, path: Path) -> Pat
     a_m.set_xlim(x0 - 0.02 * (x1 - x0), x1 + 0.02 * (x1 - x0))
     fig.suptitle(f"FE against hand along the member ({len(x)} sections)", x=0.01, ha="left",
                  fontsize=11, fontweight="bold")
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return Path(path)
+    return save_png(fig, path)
 
 
 def write_beam_figures(case: Case, level: Level, cuts: list[CutResult], folder: Path,

@@ -17,7 +17,6 @@ solve finds). The title gives the mesh: elements, dofs, and the size guard's est
 from __future__ import annotations
 
 import math
-import os
 import time
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -39,6 +38,7 @@ from fem.case.arcs import ring_polygon  # noqa: E402
 from fem.case.model import Case  # noqa: E402
 from fem.case.outline import curved_edges, domain_polygon, reentrant_corners  # noqa: E402
 from fem.case.sizing import estimate_dofs, level_size  # noqa: E402
+from fem.report.png import save_png  # noqa: E402
 
 __all__ = ["Preview", "preview", "run_figure", "FIGURE_NAME"]
 
@@ -126,14 +126,6 @@ def _figure(bounds: tuple[float, float, float, float]):
     ax.set_ylim(y0 - pad, y1 + pad)
     ax.tick_params(labelsize=7)
     return fig, ax, max(w, h)
-
-
-def _save(fig, path: Path) -> None:
-    """Write the PNG next to its final name, then move it in place (never half a file)."""
-    tmp = path.with_name(f".{path.name}.tmp")
-    fig.savefig(tmp, dpi=DPI, format="png")
-    plt.close(fig)
-    os.replace(tmp, path)
 
 
 def _mesh_line(kind: str, size: float, order: int, elements: int, dofs: int, estimate: int,
@@ -229,7 +221,7 @@ def _member(case: Case, folder: Path, mm: Any = None) -> Preview:
     ax.set_xlabel(f"x [{u.length}]", fontsize=8)
     ax.set_ylabel(f"y [{u.length}]", fontsize=8)
     path = folder / FIGURE_NAME
-    _save(fig, path)
+    save_png(fig, path, tight=False, dpi=DPI)
     t2 = time.perf_counter()
     lines = [f"{case.name} (beam): {case.title}",
              f"  geometry: {_geometry_words(case)}; {_n(x1 - x0)} x {_n(y1 - y0)} {u.length}, "
@@ -366,7 +358,7 @@ def _section(case: Case, folder: Path, sm: Any = None) -> Preview:
     ax.set_xlabel(f"x [{u.length}]", fontsize=8)
     ax.set_ylabel(f"y [{u.length}]", fontsize=8)
     path = folder / FIGURE_NAME
-    _save(fig, path)
+    save_png(fig, path, tight=False, dpi=DPI)
     t2 = time.perf_counter()
     x0, y0, x1, y1 = poly.bounds
     arcs = sum(int(np.count_nonzero(r.bulges)) for r in geom.rings if r.bulges is not None)

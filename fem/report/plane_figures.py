@@ -13,6 +13,8 @@ matplotlib.use("Agg")
 import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 
+from fem.report.png import save_png  # noqa: E402
+
 __all__ = ["plot_planes"]
 
 
@@ -40,9 +42,4 @@ def plot_planes(planes: list[dict[str, Any]], units: dict[str, str], name: str,
         ax.legend(fontsize=8, loc="best")
     axes[-1, 0].set_xlabel(f"x [{L}]")
     fig.suptitle(f"{name}: longitudinal shear per unit length on the planes", fontsize=10)
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
+    return save_png(fig, path)

@@ -18,6 +18,7 @@ from mpl_toolkits.axes_grid1 import make_axes_locatable  # noqa: E402
 
 from fem.case.model import Case  # noqa: E402
 from fem.report.member_figures import force_text  # noqa: E402
+from fem.report.png import save_png  # noqa: E402
 from fem.section.check import SectionRun  # noqa: E402
 from fem.section.level import SectionCheck  # noqa: E402
 
@@ -92,7 +93,7 @@ def plot_section_stress(check: SectionCheck, length_unit: str, stress_unit: str,
     extend = "max" if check.tau_max_fe > top * (1 + 1e-9) else "neither"
     cax = make_axes_locatable(ax).append_axes("right", size="4%", pad=0.12)
     fig.colorbar(pc, cax=cax, label=f"|τ| [{stress_unit}]", extend=extend)
-    return _save(fig, path)
+    return save_png(fig, path)
 
 
 def plot_neutral_axis(check: SectionCheck, length_unit: str, stress_unit: str,
@@ -116,16 +117,9 @@ def plot_neutral_axis(check: SectionCheck, length_unit: str, stress_unit: str,
     ax.set_title(f"{check.shape}: shear stress on the neutral axis")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
-    return _save(fig, path)
+    return save_png(fig, path)
 
 
-def _save(fig: plt.Figure, path: str | Path) -> Path:
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
 
 
 def section_shear_figure(case: Case, run: SectionRun, path: Path) -> Path:

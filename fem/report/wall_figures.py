@@ -17,6 +17,7 @@ from matplotlib.tri import Triangulation  # noqa: E402
 from mpl_toolkits.axes_grid1 import make_axes_locatable  # noqa: E402
 
 from fem.case.model import Case  # noqa: E402
+from fem.report.png import save_png  # noqa: E402
 from fem.section.check import SectionRun  # noqa: E402
 from fem.section.hand_method import CENTRELINE_SHAPES  # noqa: E402
 from fem.section.level import SectionCheck  # noqa: E402
@@ -116,7 +117,7 @@ def plot_section_flow(check: SectionCheck, case: Case, path: str | Path,
     cax = make_axes_locatable(ax).append_axes("right", size="4%", pad=0.12)
     fig.colorbar(pc, cax=cax, label=f"|τ| [{u.stress}]",
                  extend="max" if check.tau_max_fe > top * (1 + 1e-9) else "neither")
-    return _save(fig, path)
+    return save_png(fig, path)
 
 
 def plot_wall_flow(check: SectionCheck, case: Case, path: str | Path) -> Path:
@@ -149,16 +150,9 @@ def plot_wall_flow(check: SectionCheck, case: Case, path: str | Path) -> Path:
                  fontsize=10)
     ax.legend(fontsize=8, loc="best")
     ax.grid(alpha=0.3, axis="y")
-    return _save(fig, path)
+    return save_png(fig, path)
 
 
-def _save(fig: plt.Figure, path: str | Path) -> Path:
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    fig.tight_layout()
-    fig.savefig(path, dpi=150)
-    plt.close(fig)
-    return path
 
 
 def write_wall_figures(case: Case, run: SectionRun, folder: Path) -> list[Path]:

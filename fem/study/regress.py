@@ -24,6 +24,7 @@ from typing import Any
 from fem.api import check
 from fem.case.parse import load_case
 from fem.errors import CaseError
+from fem.provenance import package_version
 from fem.results import atomic_write
 from fem.study.pool import POINT_LOCK, end_workers, process_pool, progress_bar
 
@@ -313,17 +314,10 @@ def run_suite(folder: str | Path = "cases", only: list[str] | None = None,
 
 
 def _write_baseline(path: Path, res: dict[str, Any], figures: dict[str, dict]) -> None:
-    from importlib.metadata import PackageNotFoundError, version
-
-    def ver(name: str) -> str:
-        try:
-            return version(name)
-        except PackageNotFoundError:
-            return "unknown"
-
     data = {
         "schema": 1, "case": res["name"],
-        "made_with": {**res["settings"], "gmsh": ver("gmsh"), "scikit-fem": ver("scikit-fem")},
+        "made_with": {**res["settings"], "gmsh": package_version("gmsh"),
+                      "scikit-fem": package_version("scikit-fem")},
         "tolerance_rule": TOLERANCE_RULE,
         "figures": figures,
     }
