@@ -22,7 +22,7 @@ __all__ = [
     "convert_force",
     "convert_length",
     "convert_stress",
-    "force_for_stress",
+    "force_scale",
     "stress_factor",
     "stress_unit",
 ]
@@ -146,15 +146,24 @@ def convert_stress(value: float, from_unit: str, to_unit: str) -> float:
     return value * stress_factor(from_unit) / stress_factor(to_unit)
 
 
-def force_for_stress(length: str, stress: str) -> str | None:
-    """The force unit F of :data:`FORCE_UNITS` for which F/length^2 is the stress unit,
-    or None when there is none (e.g. MPa with length in m would need MN).
+def force_scale(length: str, force: str, stress: str) -> float:
+    """Working force units per unit of `force`, when stresses are to be in `stress`.
 
-    Units as accepted by :func:`stress_factor` and keys of :data:`LENGTH_UNITS`; raises
-    ``ValueError`` otherwise.
+    A model whose lengths are in `length` and whose stresses are in `stress` is consistent
+    when its forces are in the working unit W = stress x length^2 (so that a force over an
+    area is a stress in that unit, with no factor). A force of `force` units is then
+
+        c = N_per(force) / (Pa_per(stress) x m_per(length)^2)
+
+    working units. Examples: kN with mm and MPa gives c = 1000 (W is the N); kN with m and
+    MPa gives c = 1e-3 (W is the MN); N with mm and MPa gives exactly 1.
+
+    Units as accepted by :func:`stress_factor` and keys of :data:`FORCE_UNITS` and
+    :data:`LENGTH_UNITS`; raises ``ValueError`` otherwise. Exact SI factors (common
+    practice); c is returned as exactly 1.0 when it equals 1 to round-off, so a case
+    whose stress unit is force/length^2 itself is computed without any factor.
     """
-    target = stress_factor(stress) * _lookup(LENGTH_UNITS, length, "length") ** 2
-    for name, newtons in FORCE_UNITS.items():
-        if math.isclose(newtons, target, rel_tol=1e-12):
-            return name
-    return None
+    c = _lookup(FORCE_UNITS, force, "force") / (
+        stress_factor(stress) * _lookup(LENGTH_UNITS, length, "length") ** 2
+    )
+    return 1.0 if math.isclose(c, 1.0, rel_tol=1e-12) else c

@@ -21,7 +21,7 @@ import numpy as np
 __all__ = [
     "MeshInfo", "Equilibrium", "Profile", "CutResult", "Peak", "ConvergenceResult",
     "Finding", "Timings", "EnvelopePoint", "Envelope", "Result", "write_json", "to_jsonable",
-    "CAUTION", "atomic_write", "significant",
+    "CAUTION", "atomic_write", "significant", "forces_to_case_unit",
 ]
 
 CAUTION = ("This is a verification aid. Design remains subject to the governing code and the "
@@ -202,6 +202,63 @@ class Result:
             if d.get(key) is None:
                 d.pop(key, None)
         return d
+
+
+_CUT_FORCES = ("V_fe", "V_hand", "M_fe", "M_hand", "N_fe", "N_hand")
+_SECTION_FORCES = ("V", "V_solved", "GJ", "torsion_stress_per_torque")
+_JOINT_FORCES = ("q_hand", "q_fe", "q_fe_line", "capacity", "demand")
+_PLANE_FORCES = ("q_fe", "q_hand", "total_fe")
+
+
+def _scaled(v: Any, k: float) -> Any:
+    if v is None:
+        return None
+    if isinstance(v, list | tuple):
+        return [_scaled(w, k) for w in v]
+    return v * k
+
+
+def forces_to_case_unit(result: Result, scale: float) -> None:
+    """Turn, in place, every force-valued field of a finished `result` from the working
+    force unit into the case's force unit (`fem.case.model.Units`).
+
+    A case is computed with forces in stress unit × length² so that stresses come out in
+    the case's stress unit with no factor; `scale` is that unit's size in case force units
+    per working unit (1 / `Units.force_scale`). Forces, moments (force × length) and shear
+    flows (force / length) take the factor; the torsion stress per unit torque takes
+    its inverse. Stresses, lengths and ratios are untouched. With scale 1 nothing changes.
+    """
+    if scale == 1.0:
+        return
+    for c in result.cuts or []:
+        for name in _CUT_FORCES:
+            setattr(c, name, _scaled(getattr(c, name), scale))
+    if result.equilibrium is not None:
+        e = result.equilibrium
+        e.applied, e.reactions = _scaled(e.applied, scale), _scaled(e.reactions, scale)
+    sec = result.section
+    if sec is not None:
+        for name in _SECTION_FORCES:
+            if name in sec:
+                per = 1.0 / scale if name == "torsion_stress_per_torque" else scale
+                sec[name] = _scaled(sec[name], per)
+        if "resultant" in sec:
+            sec["resultant"] = {k: _scaled(v, scale) if k != "relative_error" else v
+                                for k, v in sec["resultant"].items()}
+    for j in result.joints or []:
+        for name in _JOINT_FORCES:
+            if name in j:
+                j[name] = _scaled(j[name], scale)
+    for p in result.planes or []:
+        for name in _PLANE_FORCES:
+            if name in p:
+                p[name] = _scaled(p[name], scale)
+    if result.convergence is not None:
+        for name, q in result.convergence.quantities.items():
+            if name.endswith(" q_fe"):   # a joint's shear flow, tracked over the levels
+                for key in ("values", "extrapolated"):
+                    if key in q:
+                        q[key] = _scaled(q[key], scale)
 
 
 def significant(v: float, digits: int = 6) -> float:

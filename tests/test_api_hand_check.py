@@ -38,7 +38,7 @@ def test_beam_hand_only(tmp_path):
     assert [c["tau_max_hand"] for c in d["cuts"]] == pytest.approx([15.0, 15.0])
     assert [abs(c["M_hand"]) for c in d["cuts"]] == pytest.approx([2.5e6, 1.5e6])
     assert all(c["tau_max_fe"] is None and c["ratio"] is None for c in d["cuts"])
-    assert "10000 x 12500 / (833333 x 10) = 15 MPa" in text
+    assert "10000 N x 12500 mm3 / (833333 mm4 x 10 mm) = 15 MPa" in text
 
 
 def test_section_hand_only(tmp_path):

@@ -56,22 +56,29 @@ def test_zero_load_refused():
         parse_case(_cant().replace("[0.0, -10000.0]", "[0.0, 0.0]"), "z.toml")
 
 
-def test_units_stress_names_the_unit_force_and_length_give():
-    """[units] stress is optional; given, it must be force/length² itself (inputs and
-    results are in that unit, unconverted: CASE-FORMAT.md), and it is the printed name.
-    N and mm give the MPa (1 N/mm² = 1 MPa, exact); kN and mm give the GPa, so asking for
-    MPa there is refused with the force unit that would give it."""
+def test_units_stress_is_the_unit_of_every_stress_and_forces_stay_as_given():
+    """[units] stress is optional (default force/length²: N & mm → MPa); given, it is the
+    unit of every stress in the file and the outputs, and the case is computed in working
+    units: forces × force_scale = N_per(force) / (Pa_per(stress) m_per(length)²), so that
+    force / area is a stress in that unit (kN with mm and MPa: 1 kN = 1000 N, the working
+    unit; SI definitions, common practice). E and the lengths are read as given."""
     plain = parse_case(_cant(), "c.toml")
     assert plain.units.stress == "MPa" and plain.units.stress_name is None
+    assert plain.units.force_scale == 1.0
     named = parse_case(_cant().replace("[material]", '[units]\nstress = "N/mm²"\n[material]'),
                        "c.toml")
-    assert named.units.stress == "N/mm²"
-    kn = _cant().replace("[material]", '[units]\nforce = "kN"\nstress = "GPa"\n[material]')
-    assert parse_case(kn, "c.toml").units.stress == "GPa"
-    with pytest.raises(CaseError, match="units.stress.*which is GPa.*force = 'N'"):
-        parse_case(kn.replace('"GPa"', '"MPa"'), "c.toml")
+    assert named.units.stress == "N/mm²" and named.units.force_scale == 1.0
+    kn_text = _cant().replace("[material]", '[units]\nforce = "kN"\nstress = "MPa"\n'
+                                            '[material]').replace("-10000.0", "-10.0")
+    kn = parse_case(kn_text, "c.toml")
+    assert kn.units.stress == "MPa" and kn.units.force_scale == 1000.0
+    assert kn.loads[0].force == plain.loads[0].force == (0.0, -10000.0)   # working: N
+    assert kn.material.E == plain.material.E
+    assert kn.units.user_force(kn.loads[0].force[1]) == -10.0
+    gpa = parse_case(kn_text.replace('"MPa"', '"GPa"').replace("-10.0", "-10000.0"), "c.toml")
+    assert gpa.units.stress == "GPa" and gpa.units.force_scale == 1.0   # kN/mm² itself
     with pytest.raises(CaseError, match="units.stress.*'bar' is not allowed"):
-        parse_case(kn.replace('"GPa"', '"bar"'), "c.toml")
+        parse_case(kn_text.replace('"MPa"', '"bar"'), "c.toml")
 
 
 def test_section_method_defaults_to_auto_beam_to_shear_formula():

@@ -14,7 +14,7 @@ from classical.units import (
     convert_force,
     convert_length,
     convert_stress,
-    force_for_stress,
+    force_scale,
     stress_factor,
     stress_unit,
 )
@@ -75,13 +75,23 @@ def test_unknown_units_raise_with_allowed_list() -> None:
         stress_unit("cm", "N")
 
 
-def test_output_stress_names_and_the_force_that_gives_them() -> None:
-    """N/mm² is the MPa (1 N/mm² = 1e6 N/m², exact); with mm lengths N gives MPa and kN
-    GPa, with m lengths kN gives kPa, with in lengths kip gives ksi; MPa with m lengths
-    would need MN, which is not a force unit here (exact SI definitions, common practice)."""
+def test_output_stress_names() -> None:
+    """N/mm² is the MPa (1 N/mm² = 1e6 N/m², exact SI definitions, common practice)."""
     assert OUTPUT_STRESS_UNITS["N/mm²"] == OUTPUT_STRESS_UNITS["MPa"] == 1e6
     assert set(OUTPUT_STRESS_UNITS) == {"MPa", "kPa", "Pa", "psi", "ksi", "N/mm²", "GPa"}
     assert stress_factor("N/mm²") == 1e6
-    assert force_for_stress("mm", "MPa") == "N" and force_for_stress("mm", "GPa") == "kN"
-    assert force_for_stress("m", "kPa") == "kN" and force_for_stress("in", "ksi") == "kip"
-    assert force_for_stress("m", "MPa") is None
+
+
+def test_force_scale_makes_force_over_area_the_stress_unit() -> None:
+    """Working force unit = stress unit × length²: kN with mm and MPa is 1000 working
+    units (the N), kN with m and MPa 1e-3 (the MN), kip with in and psi 1000 (the lbf);
+    exactly 1 where force/length² is the stress unit itself (SI and inch-pound
+    definitions, common practice)."""
+    assert force_scale("mm", "kN", "MPa") == pytest.approx(1000.0, rel=1e-12)
+    assert force_scale("m", "kN", "MPa") == pytest.approx(1e-3, rel=1e-12)
+    assert force_scale("in", "kip", "psi") == pytest.approx(1000.0, rel=1e-12)
+    assert force_scale("m", "kN", "psi") == pytest.approx(1000.0 / 6894.757293168, rel=1e-9)
+    for length, force, stress in (("mm", "N", "MPa"), ("mm", "N", "N/mm²"),
+                                  ("in", "lbf", "psi"), ("m", "kN", "kPa"),
+                                  ("mm", "kN", "GPa"), ("in", "kip", "ksi")):
+        assert force_scale(length, force, stress) == 1.0   # exactly: no factor at all

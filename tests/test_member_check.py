@@ -61,7 +61,9 @@ adaptive = true
 # ----------------------------------------------------------------- scale-free verdicts
 
 UNITS = {"mm/N": ("mm", "N", 1.0, 1.0), "m/kN": ("m", "kN", 1000.0, 1000.0),
-         "in/lbf": ("in", "lbf", 25.4, 4.4482216152605)}
+         "in/lbf": ("in", "lbf", 25.4, 4.4482216152605),
+         "mm/kN/MPa": ("mm", "kN", 1.0, 1000.0, ("MPa", 1.0)),
+         "m/kN/MPa": ("m", "kN", 1000.0, 1000.0, ("MPa", 1.0))}
 
 
 @pytest.fixture(scope="module")
@@ -89,6 +91,27 @@ def test_verdict_and_ratios_do_not_depend_on_the_unit_system(unit_runs):
         for a, b in zip(r.cuts, ref.cuts, strict=True):
             assert a.ratio == pytest.approx(b.ratio, rel=1e-6), (k, a.x)
         assert r.envelope.ratio == pytest.approx(ref.envelope.ratio, rel=1e-6), k
+
+
+def test_units_stress_reports_every_stress_in_it_and_every_force_as_given(unit_runs):
+    """[units] stress = "MPa" with kN and mm (kN/mm² would be the GPa) or with kN and m:
+    every stress of results.json is the mm/N run's in MPa, every force, moment and shear
+    flow that run's in kN, to 1e-9 (1 kN = 1000 N, 1 kN·m = 10⁶ N·mm; SI definitions,
+    common practice), and the finding messages and the verdict are the same. The leaves
+    are sorted by dimension in tests/conftest.py, apart from the code that converts."""
+    from conftest import unit_mismatches
+
+    ref = unit_runs["mm/N"].result
+    kn = unit_runs["mm/kN/MPa"].result
+    assert kn.units == {"length": "mm", "force": "kN", "stress": "MPa"}
+    assert unit_mismatches(ref.to_dict(), kn.to_dict(), 1e-3) == []
+    assert [f.message for f in kn.findings] == [f.message for f in ref.findings]
+    m = unit_runs["m/kN/MPa"].result
+    assert m.units["stress"] == "MPa"
+    for a, b in zip(m.cuts, ref.cuts, strict=True):
+        assert b.tau_max_fe == pytest.approx(a.tau_max_fe, rel=1e-6)          # MPa both
+        assert a.V_hand == pytest.approx(b.V_hand * 1e-3, rel=1e-12)         # N -> kN
+        assert a.M_hand == pytest.approx(b.M_hand * 1e-6, rel=1e-12)         # N·mm -> kN·m
 
 
 def test_a_coarse_three_level_study_is_inconclusive_with_the_reason(tmp_path):

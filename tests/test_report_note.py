@@ -326,7 +326,7 @@ def test_section_check_gets_its_own_note(tmp_path):
     sec = res.result.section
     assert CAUTION in text and "Cuts parallel to the neutral axis" in text
     assert f"the FE peak {sci(sec['tau_max_fe'])} MPa is {sec['ratio']:.3f} times" in text
-    assert f"V/A = 10000 / {sci(sec['A'])} = {sci(sec['tau_avg_hand'])} MPa" in text
+    assert f"V/A = 10000 N / {sci(sec['A'])} mm² = {sci(sec['tau_avg_hand'])} MPa" in text
     imgs = [a["src"] for t, a in doc.tags if t == "img"]
     assert len(imgs) == len([n for n in names if n.endswith(".png")])
     assert "Prepared by" in text and "Checked by" in text  # the title block, left blank

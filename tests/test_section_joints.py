@@ -116,6 +116,33 @@ def test_fastener_spacing_and_capacity():
     assert cap and cap[0].ratio == pytest.approx(j.demand / 5000.0)
 
 
+def test_units_stress_keeps_joint_flows_and_capacities_in_the_force_unit():
+    """The built-up tee with a bolt row (capacity 5 kN, spacing 50 mm) written in kN, mm and
+    [units] stress = "MPa": every stress of results.json is the N/mm run's (MPa both), every
+    force, shear flow and capacity that run's in kN, to 1e-9 (SI definitions, common
+    practice); the joint-capacity finding speaks in kN and kN/mm."""
+    from conftest import unit_mismatches
+
+    from fem.case.parse import parse_case
+    from fem.section.check import check_section_case
+
+    bolts = ('[[check.joints]]\nname = "bolts"\nfrom = [-5.0, 150.0]\nto = [5.0, 150.0]\n'
+             'spacing = 50.0\n')
+    n = TEE_CASE + "[check]\n" + bolts + "capacity = 5000.0\n"
+    kn = (TEE_CASE.replace("[material]", '[units]\nforce = "kN"\nstress = "MPa"\n[material]')
+          .replace("shear = [0.0, 20000.0]", "shear = [0.0, 20.0]")
+          + "[check]\n" + bolts + "capacity = 5.0\n")
+    a = check_section_case(parse_case(n, "n.toml")).result
+    b = check_section_case(parse_case(kn, "kn.toml")).result
+    assert b.units == {"length": "mm", "force": "kN", "stress": "MPa"}
+    assert unit_mismatches(a.to_dict(), b.to_dict(), 1e-3) == []
+    assert b.verdict == a.verdict
+    (cap,) = [f for f in b.findings if f.kind == "joint-capacity"]
+    j = b.joints[0]
+    assert f"= {j['demand']:.4g} kN exceeds its capacity 5 kN" in cap.message
+    assert "kN/mm x 50 mm" in cap.message
+
+
 def test_hand_lines_of_the_girder_joints():
     """`shearcheck hand` writes each joint's VQ/I: the girder of
     cases/welded-plate-girder-section.toml, Q = 300 x 20 x 440 = 2.64e6 mm3,
@@ -130,7 +157,7 @@ def test_hand_lines_of_the_girder_joints():
     text = "\n".join(lines)
     I = 10 * 860**3 / 12 + 2 * (300 * 20**3 / 12 + 6000 * 440**2)  # noqa: E741
     assert f"q = {600_000 * 2.64e6 / I:.5g} N/mm" in text
-    assert "q/(2 x 4.2) = 66.08 MPa" in text
+    assert "q/(2 x 4.2 mm) = 66.08 MPa" in text
 
 
 def test_unsymmetric_closed_cell_joint_has_no_hand_value():

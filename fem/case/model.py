@@ -9,7 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field, replace
 from typing import Any
 
-from classical.units import stress_unit
+from classical.units import force_scale, stress_unit
 from fem.case.project import Project
 
 __all__ = [
@@ -48,11 +48,18 @@ SECTION_SHAPES: dict[str, tuple[tuple[str, ...], tuple[str, ...]]] = {
 
 @dataclass(frozen=True)
 class Units:
-    """Length and force of the case; every stress (input and output) is in force/length².
+    """Length, force and stress units of the case.
 
-    ``stress_name`` is the optional ``[units] stress`` key: the name to print for that unit
-    (e.g. "N/mm²" for N and mm). `fem.case.parse` accepts it only when it is the unit that
-    length and force give, so no number is ever converted (see README, units).
+    ``stress_name`` is the optional ``[units] stress`` key; without it the stress unit is
+    force/length² (N & mm → MPa). Every stress of the case file (E, yield, hand_value) and
+    of the outputs is in `stress`; every force (loads, shear, capacities) is read and
+    reported in `force`.
+
+    Inside, a case is computed in consistent working units: lengths in `length`, stresses
+    in `stress`, forces in stress × length² (`classical.units.force_scale`). `fem.case.parse`
+    multiplies every force of the file by `force_scale` on reading, so the mechanics never
+    sees a unit factor; whatever reports a force divides by it again (`user_force`). With
+    the default stress unit `force_scale` is exactly 1.
     """
 
     length: str = "mm"
@@ -62,6 +69,17 @@ class Units:
     @property
     def stress(self) -> str:
         return self.stress_name or stress_unit(self.length, self.force)
+
+    @property
+    def force_scale(self) -> float:
+        """Working force units per unit of `force` (1 unless [units] stress says so)."""
+        return force_scale(self.length, self.force, self.stress)
+
+    def user_force(self, value: float) -> float:
+        """A force, moment (force × length) or shear flow (force / length) of the working
+        units in the case's `force` unit."""
+        c = self.force_scale
+        return value if c == 1.0 else value / c
 
 
 @dataclass(frozen=True)

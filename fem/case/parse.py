@@ -7,7 +7,6 @@ and run from `validate_geometry`, called here too.
 
 from __future__ import annotations
 
-import math
 import re
 import tomllib
 from dataclasses import replace
@@ -18,8 +17,6 @@ from classical.units import (
     FORCE_UNITS,
     LENGTH_UNITS,
     OUTPUT_STRESS_UNITS,
-    force_for_stress,
-    stress_factor,
 )
 from fem.case.arcs import read_ring
 from fem.case.drawing import Drawing, read_drawing
@@ -210,6 +207,7 @@ def _parse(text: str, file: str, folder: str | Path | None = None) -> Case:
     case = Case(name=case_name, title=title, kind=kind, units=units, material=material,
                 geometry=geometry, mesh=mesh, check=check, supports=supports, loads=loads,
                 shear=shear, file=file, schema=schema, project=project, text=text)
+    case = _working_forces(case)
     check_scale(case)
     if kind == "beam":
         validate_geometry(case)
@@ -227,26 +225,23 @@ def _units(t: Table | None, top: Table) -> Units:
               force=t.text("force", "N", allowed=tuple(FORCE_UNITS)))
     name = t.text("stress", None, allowed=tuple(OUTPUT_STRESS_UNITS))
     if name is not None:
-        _same_stress(t, u, name)
         u = replace(u, stress_name=name)
     t.close()
     return u
 
 
-def _same_stress(t: Table, u: Units, name: str) -> None:
-    """[units] stress must be the unit force/length² itself: inputs (E, yield, hand_value)
-    are in that unit (CASE-FORMAT.md) and the results are reported in it unconverted."""
-    given = OUTPUT_STRESS_UNITS[name]
-    have = stress_factor(u.stress)
-    if math.isclose(given, have, rel_tol=1e-12):
-        return
-    force = force_for_stress(u.length, name)
-    hint = (f"give force = {force!r} with length = {u.length!r} for {name}" if force
-            else f"no force unit gives {name} with length = {u.length!r}")
-    raise t.error("stress", f"{name!r} is not the stress unit of force {u.force!r} and length "
-                            f"{u.length!r}, which is {u.stress}; every stress is read and "
-                            f"reported in that unit, unconverted: {hint}, or leave "
-                            "units.stress out")
+def _working_forces(case: Case) -> Case:
+    """The case with every force of the file (loads, the section's shear, fastener
+    capacities) in working units: stress unit × length² (`Units.force_scale`), so the
+    mechanics needs no unit factor; the reports divide by it again (`Units.user_force`)."""
+    c = case.units.force_scale
+    if c == 1.0:
+        return case
+    loads = tuple(replace(ld, force=(ld.force[0] * c, ld.force[1] * c)) for ld in case.loads)
+    joints = tuple(replace(j, capacity=None if j.capacity is None else j.capacity * c)
+                   for j in case.check.joints)
+    return replace(case, loads=loads, shear=(case.shear[0] * c, case.shear[1] * c),
+                   check=replace(case.check, joints=joints))
 
 
 def _material(t: Table, kind: str) -> Material:

@@ -37,6 +37,7 @@ from fem.results import (
     Peak,
     Result,
     Timings,
+    forces_to_case_unit,
 )
 from fem.verdict import decide
 
@@ -121,7 +122,8 @@ def check_beam(case: Case, progress: Progress | Callable[[str], None] | None = N
     planes = member_planes(case, fin, zones)
     if planes:
         result.planes = [p.to_dict() for p in planes]
-        result.findings += plane_findings(planes, tol)
+        result.findings += plane_findings(case, planes, tol)
+    forces_to_case_unit(result, 1.0 / case.units.force_scale)
     return BeamRun(result=result, finest=fin, levels=levels, concentrations=conc)
 
 

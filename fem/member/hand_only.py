@@ -12,7 +12,7 @@ from fem.case.model import Case
 from fem.case.outline import cut_strips, domain_polygon, patches
 from fem.member.hand import hand_at_cut, member_model, total_load
 from fem.member.level import cut_positions
-from fem.results import CutResult, Profile, Result, Timings
+from fem.results import CutResult, Profile, Result, Timings, forces_to_case_unit
 
 __all__ = ["beam_hand_result", "hand_units"]
 
@@ -29,14 +29,15 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
     xs = cut_positions(case, sup, lds)
     model = member_model(case, sup, lds, stations=xs)
     L, F, S = case.units.length, case.units.force, case.units.stress
+    f = case.units.user_force   # working force units -> the case's (fem.case.model.Units)
     lines = [f"Hand calculation: {case.title} ({case.name})",
              f"Units: {L}, {F}; stress {S}. Method: {case.check.method}.",
              "Statics: " + ("statically determinate" if model.determinate else
                             "statically indeterminate, elementary beam theory (EI constant)"),
              ""]
     for s, r in zip(model.supports, model.reactions, strict=True):
-        lines.append(f"  reaction at {s.name} (x = {s.x:g} {L}): Rx = {r[0]:.5g} {F}, "
-                     f"Ry = {r[1]:.5g} {F}, couple = {r[2]:.5g} {F} {L}")
+        lines.append(f"  reaction at {s.name} (x = {s.x:g} {L}): Rx = {f(r[0]) + 0.0:.5g} {F}, "
+                     f"Ry = {f(r[1]) + 0.0:.5g} {F}, couple = {f(r[2]) + 0.0:.5g} {F} {L}")
     cuts = []
     for x in xs:
         strips = cut_strips(g, x, case.material.thickness, dom)
@@ -49,17 +50,19 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
             f"{s.y0:g}..{s.y1:g} {L} (t = {s.t:g})" for s in strips),
             f"  A = {sec.area:.6g} {L}2, y_bar = {sec.centroid:.6g} {L}, "
             f"I = {sec.inertia:.6g} {L}4",
-            f"  V = {hd.V:.6g} {F}, N = {hd.N:.6g} {F}, M = {hd.M:.6g} {F} {L}",
+            f"  V = {f(hd.V):.6g} {F}, N = {f(hd.N):.6g} {F}, M = {f(hd.M):.6g} {F} {L}",
             f"  shear formula at y = {hd.y_at_tau_max:.4g} {L}: tau = V Q/(I b) = "
-            f"{abs(hd.V):.6g} x {q:.6g} / ({sec.inertia:.6g} x {b:.4g}) = "
-            f"{hd.tau_max_formula:.4g} {S}",
-            f"  average: V/A = {abs(hd.V):.6g} / {sec.area:.6g} = {hd.tau_avg:.4g} {S}",
-            f"  bending: |N|/A + |M| c/I = {abs(hd.N):.6g}/{sec.area:.6g} + {abs(hd.M):.6g} x "
-            f"{sec.fibre_distance():.4g}/{sec.inertia:.6g} = {hd.sigma_x_max:.4g} {S}"]
+            f"{f(abs(hd.V)):.6g} {F} x {q:.6g} {L}3 / ({sec.inertia:.6g} {L}4 x {b:.4g} {L}) "
+            f"= {hd.tau_max_formula:.4g} {S}",
+            f"  average: V/A = {f(abs(hd.V)):.6g} {F} / {sec.area:.6g} {L}2 = "
+            f"{hd.tau_avg:.4g} {S}",
+            f"  bending: |N|/A + |M| c/I = {f(abs(hd.N)):.6g} {F} / {sec.area:.6g} {L}2 + "
+            f"{f(abs(hd.M)):.6g} {F} {L} x {sec.fibre_distance():.4g} {L} / "
+            f"{sec.inertia:.6g} {L}4 = {hd.sigma_x_max:.4g} {S}"]
         if case.check.method in ("single-shear", "double-shear"):
             n = 1 if case.check.method == "single-shear" else 2
-            lines.append(f"  {case.check.method}: F/({n}A) = {total_load(case):.6g} / ({n} x "
-                         f"{sec.area:.6g}) = {hd.tau_method:.4g} {S}")
+            lines.append(f"  {case.check.method}: F/({n}A) = {f(total_load(case)):.6g} {F} / "
+                         f"({n} x {sec.area:.6g} {L}2) = {hd.tau_method:.4g} {S}")
         cuts.append(CutResult(
             x=x, V_fe=None, V_hand=hd.V, M_fe=None, M_hand=hd.M, tau_max_fe=None,
             y_at_tau_max_fe=None, tau_max_hand=hd.tau_method, tau_avg_hand=hd.tau_avg,
@@ -74,4 +77,5 @@ def beam_hand_result(case: Case) -> tuple[Result, list[str]]:
                  verdict="inconclusive", findings=[], timings=Timings(), convergence=None,
                  cuts=cuts, peak=None, equilibrium=None, hand_method=case.check.method,
                  tolerance=case.check.tolerance, hand_calculation=lines)
+    forces_to_case_unit(res, 1.0 / case.units.force_scale)
     return res, lines

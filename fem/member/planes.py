@@ -100,10 +100,12 @@ def member_planes(case: Case, level: Level, zones: list[ExcludedZone] = ()) -> l
     return out
 
 
-def plane_findings(planes: list[PlaneResult], tolerance: float) -> list[Finding]:
+def plane_findings(case: Case, planes: list[PlaneResult], tolerance: float) -> list[Finding]:
     """``plane-excess`` (informs) at the worst station of each plane outside the excluded
     zones where |q_FE| exceeds |VQ/I| by more than the tolerance (stations where the hand
     q is below 1 % of its largest value are not judged)."""
+    u = case.units
+    per = f"{u.force}/{u.length}"
     out = []
     for p in planes:
         fe, hd = np.abs(p.q_fe), np.abs(p.q_hand)
@@ -114,8 +116,9 @@ def plane_findings(planes: list[PlaneResult], tolerance: float) -> list[Finding]
         k = int(np.argmax(r))
         if r[k] > 1.0 + tolerance:
             out.append(Finding("plane-excess", [p.x[k], p.y], float(r[k]),
-                f"On the plane y = {p.y:g} at x = {p.x[k]:.4g} the FE longitudinal shear "
-                f"{p.q_fe[k]:.4g} per unit length is {r[k]:.3f} x VQ/I = {p.q_hand[k]:.4g}: "
+                f"On the plane y = {p.y:g} {u.length} at x = {p.x[k]:.4g} {u.length} the FE "
+                f"longitudinal shear {u.user_force(p.q_fe[k]):.4g} {per} is {r[k]:.3f} x VQ/I "
+                f"= {u.user_force(p.q_hand[k]):.4g} {per}: "
                 f"near a load, support, hole or change of section the shear flow is not "
                 f"that of beam theory."))
     return out

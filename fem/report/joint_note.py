@@ -64,7 +64,7 @@ def joint_section(res: Any) -> Section | None:
     L, F, S = u["length"], u["force"], u["stress"]
     sec = r.section or {}
     hp = sec.get("hand_properties") or {}
-    V = tuple(sec.get("V_solved") or res.case.shear)
+    V = tuple(sec.get("V_solved") or map(res.case.units.user_force, res.case.shear))
     s = Section("Joints: shear flow across welds, bolt rows and glue lines")
     s.items.append(Block(
         "q is the shear force per unit length of the member carried across each joint line. "

@@ -118,7 +118,8 @@ def _patches(ax, case: Case, level: Level, span: float) -> None:
                     arrowprops={"arrowstyle": "-|>", "color": LOAD_COLOUR, "lw": 2.0})
         x0, _, x1, _ = domain_polygon(case.beam).bounds
         inward = tail[0] > 0.5 * (x0 + x1)  # the label on the member's side stays inside
-        ax.text(tail[0], tail[1], f" {force_text(float(np.hypot(*F)), case.units.force)} ",
+        F_given = case.units.user_force(float(np.hypot(*F)))   # as in the case file
+        ax.text(tail[0], tail[1], f" {force_text(F_given, case.units.force)} ",
                 color=LOAD_COLOUR, fontsize=8, ha="right" if inward else "left",
                 va="bottom" if head[1] <= tail[1] else "top", zorder=7)
 

@@ -229,8 +229,9 @@ def _member(case: Case, folder: Path, mm: Any = None) -> Preview:
     for s, p in zip(case.supports, mm.supports, strict=True):
         lines.append(f"  {p.name}: fixes {s.fix} {_where(p)}")
     for ld, p in zip(case.loads, mm.loads, strict=True):
-        F = math.hypot(*ld.force)
-        lines.append(f"  {p.name}: [{_n(ld.force[0])}, {_n(ld.force[1])}] {u.force} "
+        fx, fy = (u.user_force(v) for v in ld.force)   # as given in the case file
+        F = math.hypot(fx, fy)
+        lines.append(f"  {p.name}: [{_n(fx)}, {_n(fy)}] {u.force} "
                      f"(|F| = {_n(F)} {u.force}, {ld.distribution}) {_where(p)}")
     lines.append(f"  cuts at x = {', '.join(_n(x) for x in cuts)} {u.length}"
                  + ("" if case.check.cuts else " (automatic)"))
@@ -313,7 +314,8 @@ def _member_patches(ax, case: Case, mm, span: float, dom: Polygon) -> None:
             ax.plot(*p.point, marker="o", color=LOAD, ms=5, zorder=7)
         ax.annotate("", xy=head, xytext=tail, zorder=9, annotation_clip=False,
                     arrowprops={"arrowstyle": "-|>", "color": LOAD, "lw": 2.0})
-        ax.text(tail[0], tail[1], f" {p.name}: {_n(float(np.hypot(*F)))} {case.units.force}",
+        F_given = case.units.user_force(float(np.hypot(*F)))
+        ax.text(tail[0], tail[1], f" {p.name}: {_n(F_given)} {case.units.force}",
                 color=LOAD, fontsize=8, ha="left", zorder=9,
                 va="bottom" if head[1] <= tail[1] else "top")
 
@@ -349,7 +351,8 @@ def _section(case: Case, folder: Path, sm: Any = None) -> Preview:
     tail = (hp.cx - d[0] / 2, hp.cy - d[1] / 2)
     ax.annotate("", xy=head, xytext=tail, zorder=9,
                 arrowprops={"arrowstyle": "-|>", "color": LOAD, "lw": 2.0})
-    ax.text(tail[0], tail[1], f" V = {_n(Vm)} {u.force}\n (through the shear centre)",
+    ax.text(tail[0], tail[1], f" V = {_n(u.user_force(Vm))} {u.force}\n (through the shear "
+            "centre)",
             color=LOAD, fontsize=8, ha="left", va="top", zorder=9)
     ax.plot(hp.cx, hp.cy, marker="+", color=INK, ms=9, zorder=9)
     est = estimate_dofs(case, sm.size)
@@ -370,7 +373,8 @@ def _section(case: Case, folder: Path, sm: Any = None) -> Preview:
              + (f", {circles} circle(s)" if circles else ""),
              f"  hand properties: A = {_n(hp.A)} {u.length}2, centroid {_pt((hp.cx, hp.cy))}, "
              f"Ixx = {_n(hp.Ixx)}, Iyy = {_n(hp.Iyy)} {u.length}4",
-             f"  shear: [{_n(V[0])}, {_n(V[1])}] {u.force} through the shear centre",
+             f"  shear: [{_n(u.user_force(V[0]))}, {_n(u.user_force(V[1]))}] {u.force} "
+             "through the shear centre",
              f"  sharp re-entrant corners: {len(corners)}",
              "  " + _mesh_line("section", sm.size, case.mesh.order, elements, dofs, est,
                                u.length),

@@ -76,7 +76,8 @@ def _inputs(res: Any) -> Section:
         s.items.append(Table(["parameter", f"value [{L}]"],
                              [[k, str(v)] for k, v in g.params.items()],
                              f"Section: {g.shape}"))
-        s.items.append(Block(f"Shear force [Vx, Vy] = [{c.shear[0]:g}, {c.shear[1]:g}] {F}, "
+        vx, vy = (c.units.user_force(v) for v in c.shear)   # as in the case file
+        s.items.append(Block(f"Shear force [Vx, Vy] = [{vx:g}, {vy:g}] {F}, "
                              "through the shear centre."))
         return s
     rows = [["outline", f"rectangle {g.length:g} × {g.depth:g} {L} (x from 0, y from 0)"
@@ -93,7 +94,9 @@ def _inputs(res: Any) -> Section:
                          [[f"support-{k}", _where(p.where), p.fix]
                           for k, p in enumerate(c.supports)], "Supports"))
     s.items.append(Table(["load", "where", f"force (Fx, Fy) [{F}]", "distribution"],
-                         [[f"load-{k}", _where(q.where), f"({sci(q.force[0])}, {sci(q.force[1])})",
+                         [[f"load-{k}", _where(q.where),
+                           f"({sci(c.units.user_force(q.force[0]))}, "
+                           f"{sci(c.units.user_force(q.force[1]))})",
                            q.distribution] for k, q in enumerate(c.loads)], "Loads"))
     return s
 

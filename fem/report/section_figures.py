@@ -35,7 +35,8 @@ def _inside(check: SectionCheck, pts: np.ndarray) -> np.ndarray:
 
 
 def plot_section_stress(check: SectionCheck, length_unit: str, stress_unit: str,
-                        path: str | Path, arrows: int = 22, force_unit: str = "") -> Path:
+                        path: str | Path, arrows: int = 22, force_unit: str = "",
+                        force_scale: float = 1.0) -> Path:
     """|tau| over the section (nodal averages, Gouraud shading, 'viridis') with arrows of
     the shear flow (length proportional to |tau|), the outline and the FE peak marked.
 
@@ -85,7 +86,7 @@ def plot_section_stress(check: SectionCheck, length_unit: str, stress_unit: str,
     ax.set_ylim(y0 - 0.05 * (y1 - y0), y1 + 0.05 * (y1 - y0))
     ax.set_xlabel(f"x [{length_unit}]")
     ax.set_ylabel(f"y [{length_unit}]")
-    vx, vy = check.V_solved
+    vx, vy = (v / force_scale for v in check.V_solved)   # in the case's force unit
     ax.set_title(f"{check.shape}: |τ| [{stress_unit}] under V = (Vx, Vy) = "
                  f"({force_text(vx, force_unit)}, {force_text(vy, force_unit)}); arrows: "
                  f"shear flow\nred circle: FE peak {check.tau_max_fe:.4g} {stress_unit}",
@@ -126,7 +127,7 @@ def section_shear_figure(case: Case, run: SectionRun, path: Path) -> Path:
     """|tau| over the section on the finest mesh, to `path`."""
     u = case.units
     return plot_section_stress(run.finest, u.length, u.stress, Path(path),
-                               force_unit=u.force)
+                               force_unit=u.force, force_scale=u.force_scale)
 
 
 def section_profile_figure(case: Case, run: SectionRun, path: Path) -> Path:

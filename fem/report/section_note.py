@@ -32,8 +32,9 @@ def section_hand(res: Any) -> Section:
     sec, c = r.section or {}, res.case
     hp = sec.get("hand_properties") or {}
     A = hp.get("A", sec.get("A"))
-    Vx, Vy = c.shear
+    Vx, Vy = c.shear          # working units (fem.case.model.Units): V/A is in S
     V = math.hypot(Vx, Vy)
+    f = c.units.user_force    # forces as in the case file
     s = Section("Hand calculation")
     s.items.append(Block(
         "Properties of the section outline (exact polygon integrals); the shear formula "
@@ -49,8 +50,8 @@ def section_hand(res: Any) -> Section:
         if abs(hp.get("angle", 0.0)) > 1e-6:
             lines.append(f"  principal: I₁ = {sci(hp['I1'])} {L}⁴, I₂ = {sci(hp['I2'])} {L}⁴ "
                          f"at {math.degrees(hp['angle']):.3g}°")
-    lines.append(f"  V = (Vx, Vy) = ({sci(Vx)}, {sci(Vy)}) {F}, |V| = {sci(V)} {F}, through the "
-                 "shear centre")
+    lines.append(f"  V = (Vx, Vy) = ({sci(f(Vx))}, {sci(f(Vy))}) {F}, |V| = {sci(f(V))} {F}, "
+                 "through the shear centre")
     used = sec.get("hand_method_used", r.hand_method)
     if used == "thin-wall" and sec.get("tau_max_hand") is not None:
         lines.append(f"  thin-walled shear flow along the centre line, peak |q|/t = "
@@ -61,7 +62,7 @@ def section_hand(res: Any) -> Section:
     elif "tau_max_hand" in sec:
         lines.append(f"  τ = VQ/(Ib), worst cut = {sci(sec['tau_max_hand'])} {S}")
     if A:
-        lines.append(f"  V/A = {sci(V)} / {sci(A)} = {sci(V / A)} {S}")
+        lines.append(f"  V/A = {sci(f(V))} {F} / {sci(A)} {L}² = {sci(V / A)} {S}")
     if sec.get("hand_method_reason"):
         lines.append(f"  hand method: {used}, chosen because: {sec['hand_method_reason']}")
     if sec.get("hand") is not None and used not in ("shear-formula", "thin-wall"):

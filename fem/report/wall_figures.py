@@ -93,7 +93,7 @@ def plot_section_flow(check: SectionCheck, case: Case, path: str | Path,
     for j in check.joints:
         xs, ys = zip(j.start, j.end, strict=True)
         ax.plot(xs, ys, color="magenta", lw=2.4, solid_capstyle="butt")
-        ax.annotate(f"{j.name}: q = {j.q_fe:.4g} {u.force}/{u.length}",
+        ax.annotate(f"{j.name}: q = {u.user_force(j.q_fe):.4g} {u.force}/{u.length}",
                     ((j.start[0] + j.end[0]) / 2, (j.start[1] + j.end[1]) / 2),
                     xytext=(8, 8), textcoords="offset points", fontsize=8, color="magenta",
                     bbox={"boxstyle": "round,pad=0.2", "fc": "white", "ec": "none",
@@ -107,7 +107,7 @@ def plot_section_flow(check: SectionCheck, case: Case, path: str | Path,
     ax.set_ylim(y0 - pad, y1 + pad)
     ax.set_xlabel(f"x [{u.length}]")
     ax.set_ylabel(f"y [{u.length}]")
-    vx, vy = check.V_solved
+    vx, vy = (u.user_force(v) for v in check.V_solved)   # in the case's force unit
     v = (force_text(vy, u.force) if vx == 0 else force_text(vx, u.force) if vy == 0
          else f"({force_text(vx, u.force)}, {force_text(vy, u.force)})")
     ax.set_title(f"{case.name}: shear flow for V{'y' if vx == 0 else 'x' if vy == 0 else ''}"
@@ -131,9 +131,9 @@ def plot_wall_flow(check: SectionCheck, case: Case, path: str | Path) -> Path:
     offset, gap = 0.0, 0.06 * sum(w.segment.length for w in flows)
     for k, w in enumerate(flows):
         x = offset + w.s
-        ax.plot(x, w.q_fe, color="tab:blue", lw=1.9, label="FE, through the wall" if k == 0
-                else None)
-        ax.plot(x, w.q_thin, color="tab:orange", ls="--", lw=1.5,
+        ax.plot(x, [u.user_force(q) for q in w.q_fe], color="tab:blue", lw=1.9,
+                label="FE, through the wall" if k == 0 else None)
+        ax.plot(x, [u.user_force(q) for q in w.q_thin], color="tab:orange", ls="--", lw=1.5,
                 label="thin-wall theory" if k == 0 else None)
         ax.axvspan(x[0], x[-1], color="0.93" if k % 2 else "0.97", zorder=0)
         ax.text((x[0] + x[-1]) / 2, 1.0, names[k] if k < len(names) else f"wall {k}",
@@ -144,7 +144,7 @@ def plot_wall_flow(check: SectionCheck, case: Case, path: str | Path) -> Path:
     ax.set_xlabel("along each wall's centre line, from its start (walls side by side; "
                   f"length to scale, {u.length})", fontsize=8)
     ax.set_ylabel(f"shear flow q [{u.force}/{u.length}]")
-    vx, vy = check.V_solved
+    vx, vy = (u.user_force(v) for v in check.V_solved)
     ax.set_title(f"{case.name}: shear flow along the walls, V = "
                  f"{force_text(vy if vx == 0 else np.hypot(vx, vy), u.force)}\n",
                  fontsize=10)

@@ -16,7 +16,15 @@ from functools import partial
 from fem.case.model import Case
 from fem.case.sizing import check_real_dofs, level_size
 from fem.convergence import acceptance, gci_study, is_singular
-from fem.results import ConvergenceResult, Equilibrium, Finding, MeshInfo, Result, Timings
+from fem.results import (
+    ConvergenceResult,
+    Equilibrium,
+    Finding,
+    MeshInfo,
+    Result,
+    Timings,
+    forces_to_case_unit,
+)
 from fem.section.level import SectionCheck, check_section
 from fem.verdict import decide
 
@@ -48,7 +56,8 @@ def _levels(case: Case, progress: Callable[[str], None] | None) -> list[SectionC
                                  tolerance=case.check.tolerance,
                                  hand_value=case.check.hand_value,
                                  joints=case.check.joints,
-                                 check_dofs=partial(check_real_dofs, case, size=size)))
+                                 check_dofs=partial(check_real_dofs, case, size=size),
+                                 units=case.units))
     return out
 
 
@@ -83,8 +92,9 @@ def check_section_case(case: Case,
                         and fin.ratio_raw > 1.0 + tol)
     verdict = decide(findings, tolerance=tol, levels=len(levels), converged=study.converged,
                      singular_governs=singular_governs)
-    return SectionRun(result=_result(case, levels, sizes, study, findings, verdict.word),
-                      levels=levels)
+    result = _result(case, levels, sizes, study, findings, verdict.word)
+    forces_to_case_unit(result, 1.0 / case.units.force_scale)
+    return SectionRun(result=result, levels=levels)
 
 
 def _study(case: Case, levels: list[SectionCheck], sizes: list[float]) -> _Study:

@@ -17,7 +17,7 @@ from classical.sections import (
 from classical.shear import average_shear, direct_shear, max_shear_formula
 from fem.case.model import Case
 from fem.case.plates import drawn_section
-from fem.results import Result, Timings
+from fem.results import Result, Timings, forces_to_case_unit
 from fem.section.hand_method import choose_method, thin_wall_peak
 from fem.section.joints import default_joints, hand_joint_lines
 
@@ -35,6 +35,7 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
     p = polygon_properties(outline)
     Vx, Vy = case.shear
     L, F, S = case.units.length, case.units.force, case.units.stress
+    f = case.units.user_force   # working force units -> the case's (fem.case.model.Units)
     V = float(np.hypot(Vx, Vy))
     mx = max_shear_formula(outline, abs(Vy)) if Vy else None
     tau_formula = mx.tau_max if mx is not None else float("nan")
@@ -56,21 +57,22 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
               else f"Section {g.shape} {g.params}") + f"; units {L}, {F}; stress {S}",
              f"  A = {p.A:.6g} {L}2, centroid = ({p.cx:.5g}, {p.cy:.5g}) {L}",
              f"  Ixx = {p.Ixx:.6g}, Iyy = {p.Iyy:.6g}, Ixy = {p.Ixy:.6g} {L}4",
-             f"  shear V = [{Vx:g}, {Vy:g}] {F}"]
+             f"  shear V = [{f(Vx):g}, {f(Vy):g}] {F}"]
     if mx is not None:
         q = first_moment_above(outline, mx.y_at)
         b = chord_length(outline, mx.y_at)
         lines.append(f"  shear formula (Vy) worst cut y = {mx.y_at:.4g} {L}: tau = V Q/(I b) = "
-                     f"{abs(Vy):.6g} x {q:.6g} / ({p.Ixx:.6g} x {b:.4g}) = {tau_formula:.4g} {S}")
+                     f"{f(abs(Vy)):.6g} {F} x {q:.6g} {L}3 / ({p.Ixx:.6g} {L}4 x {b:.4g} {L}) "
+                     f"= {tau_formula:.4g} {S}")
     if thin is not None:
         lines.append(f"  thin-walled shear flow along the centre line: peak |q|/t = "
                      f"{thin.tau:.4g} {S} at ({thin.at[0]:.4g}, {thin.at[1]:.4g}) {L}")
     lines += hand_joint_lines(outline, p, default_joints(case.section.shape,
                                                          dict(case.section.params),
                                                          case.check.joints),
-                              (Vx, Vy), L, F, S)
+                              (Vx, Vy), case.units)
     lines.append(f"  hand method: {method} ({choice.reason})")
-    lines.append(f"  average V/A = {V:.6g}/{p.A:.6g} = {avg:.4g} {S}")
+    lines.append(f"  average V/A = {f(V):.6g} {F} / {p.A:.6g} {L}2 = {avg:.4g} {S}")
     if method in ("single-shear", "double-shear"):
         n = 1 if method == "single-shear" else 2
         lines.append(f"  {method}: F/({n}A) = {tau_hand:.4g} {S}")
@@ -86,4 +88,5 @@ def section_hand_result(case: Case) -> tuple[Result, list[str]]:
                  mesh=None, verdict="inconclusive", findings=[], timings=Timings(),
                  convergence=None, section=section, hand_method=method,
                  tolerance=case.check.tolerance, hand_calculation=lines)
+    forces_to_case_unit(res, 1.0 / case.units.force_scale)
     return res, lines

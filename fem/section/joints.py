@@ -40,7 +40,7 @@ from shapely.geometry import LineString, Point, Polygon
 from shapely.ops import polygonize, unary_union
 
 from classical.sections import Outline, SectionProperties
-from fem.case.model import Joint
+from fem.case.model import Joint, Units
 from fem.case.plates import build_up
 from fem.results import Finding
 from fem.section.solve import SectionSolution
@@ -281,9 +281,11 @@ def joint_flows(sol: SectionSolution, outline: Outline, hp: SectionProperties,
 
 
 def hand_joint_lines(outline: Outline, hp: SectionProperties, joints: Sequence[Joint],
-                     V: tuple[float, float], length: str, force: str, stress: str
-                     ) -> list[str]:
-    """The hand shear flow of each joint written out, for ``shearcheck hand``."""
+                     V: tuple[float, float], units: Units) -> list[str]:
+    """The hand shear flow of each joint written out, for ``shearcheck hand`` (V and the
+    capacities in working force units, printed in the case's: `Units.user_force`)."""
+    length, force, stress, f = units.length, units.force, units.stress, units.user_force
+    per = f"{force}/{length}"
     poly = Polygon(outline.outer, list(outline.holes))
     lines = []
     for jt in joints:
@@ -296,18 +298,18 @@ def hand_joint_lines(outline: Outline, hp: SectionProperties, joints: Sequence[J
         Q = (f"Q = A (y - ybar) = {c.Qx:.6g}" if V[0] == 0.0 else
              f"Q = A (x - xbar) = {c.Qy:.6g}" if V[1] == 0.0 else
              f"Qx = {c.Qx:.6g}, Qy = {c.Qy:.6g}")
+        q = abs(c.q_hand)
         lines.append(f"  joint {jt.name}: part cut off{extra}: A = {c.area:.6g} {length}2, "
-                     f"centroid ({c.centroid[0] + 0.0:.5g}, {c.centroid[1] + 0.0:.5g}); {Q} "
-                     f"{length}3; q = {c.q_hand:.5g} {force}/{length}")
+                     f"centroid ({c.centroid[0] + 0.0:.5g}, {c.centroid[1] + 0.0:.5g}) "
+                     f"{length}; {Q} {length}3; q = {f(c.q_hand):.5g} {per}")
         if jt.throat is not None:
-            lines.append(f"    weld throat: q/({jt.welds} x {jt.throat:g}) = "
-                         f"{abs(c.q_hand) / (jt.welds * jt.throat):.4g} {stress}")
+            lines.append(f"    weld throat: q/({jt.welds} x {jt.throat:g} {length}) = "
+                         f"{q / (jt.welds * jt.throat):.4g} {stress}")
         if jt.capacity is not None:
-            lines.append(f"    largest spacing C/q = {jt.capacity:g}/{abs(c.q_hand):.5g} = "
-                         f"{jt.capacity / abs(c.q_hand):.4g} {length}")
+            lines.append(f"    largest spacing C/q = {f(jt.capacity):g} {force} / "
+                         f"{f(q):.5g} {per} = {jt.capacity / q:.4g} {length}")
         if jt.spacing is not None:
-            lines.append(f"    demand per fastener q s = {abs(c.q_hand) * jt.spacing:.5g} "
-                         f"{force}")
+            lines.append(f"    demand per fastener q s = {f(q * jt.spacing):.5g} {force}")
     return lines
 
 
@@ -320,30 +322,34 @@ def _fasteners(f: JointFlow) -> JointFlow:
         throat_stress=q / (f.welds * f.throat) if f.throat is not None else None)
 
 
-def joint_findings(flows: Sequence[JointFlow], tolerance: float) -> list[Finding]:
+def joint_findings(flows: Sequence[JointFlow], tolerance: float,
+                   units: Units) -> list[Finding]:
     """``joint-excess`` (FE above VQ/I by more than the tolerance: deciding),
     ``joint-capacity`` (fastener demand above its capacity: informs) and
-    ``joint-indeterminate`` (no hand value: informs)."""
+    ``joint-indeterminate`` (no hand value: informs); flows in working force units,
+    printed in the case's (`Units.user_force`)."""
+    L, F, f = units.length, units.force, units.user_force
+    per = f"{F}/{L}"
     out = []
-    for f in flows:
-        mid = [(f.start[0] + f.end[0]) / 2, (f.start[1] + f.end[1]) / 2]
-        if f.q_hand is None:
+    for j in flows:
+        mid = [(j.start[0] + j.end[0]) / 2, (j.start[1] + j.end[1]) / 2]
+        if j.q_hand is None:
             out.append(Finding("joint-indeterminate", mid, None,
-                f"Joint {f.name} does not cut off a part of the section on its own, and the "
+                f"Joint {j.name} does not cut off a part of the section on its own, and the "
                 f"section is not symmetric about the line of the shear: its share of the "
                 f"shear flow is statically indeterminate (closed-cell theory), so there is "
-                f"no VQ/I to compare; the FE gives q = {f.q_fe:.4g}."))
+                f"no VQ/I to compare; the FE gives q = {f(j.q_fe):.4g} {per}."))
             continue
-        if f.ratio is not None and f.ratio > 1.0 + tolerance:
-            out.append(Finding("joint-excess", mid, f.ratio,
-                f"Across joint {f.name} the FE shear flow {f.q_fe:.4g} is {f.ratio:.3f} x "
-                f"VQ/I = {f.q_hand:.4g} of the part it cuts off (area {f.part_area:.4g}): "
-                f"the part assumed by the hand calculation is not the part the line cuts "
-                f"off, or the joint is not where it is drawn."))
-        if f.demand is not None and f.capacity is not None and f.demand > f.capacity:
-            out.append(Finding("joint-capacity", mid, f.demand / f.capacity,
-                f"Joint {f.name}: the demand per fastener q s = {f.q_design:.4g} x "
-                f"{f.spacing:.4g} = {f.demand:.4g} exceeds its capacity {f.capacity:.4g} "
-                f"({f.demand / f.capacity:.3f} x); the largest spacing is "
-                f"{f.max_spacing:.4g}."))
+        if j.ratio is not None and j.ratio > 1.0 + tolerance:
+            out.append(Finding("joint-excess", mid, j.ratio,
+                f"Across joint {j.name} the FE shear flow {f(j.q_fe):.4g} {per} is "
+                f"{j.ratio:.3f} x VQ/I = {f(j.q_hand):.4g} {per} of the part it cuts off "
+                f"(area {j.part_area:.4g} {L}²): the part assumed by the hand calculation is "
+                f"not the part the line cuts off, or the joint is not where it is drawn."))
+        if j.demand is not None and j.capacity is not None and j.demand > j.capacity:
+            out.append(Finding("joint-capacity", mid, j.demand / j.capacity,
+                f"Joint {j.name}: the demand per fastener q s = {f(j.q_design):.4g} {per} x "
+                f"{j.spacing:.4g} {L} = {f(j.demand):.4g} {F} exceeds its capacity "
+                f"{f(j.capacity):.4g} {F} ({j.demand / j.capacity:.3f} x); the largest "
+                f"spacing is {j.max_spacing:.4g} {L}."))
     return out

@@ -42,7 +42,7 @@ import numpy as np
 
 from classical.sections import Outline, SectionProperties, chord_segments, polygon_properties
 from classical.shear import average_shear, direct_shear, max_shear_formula, shear_profile
-from fem.case.model import SECTION_METHODS, Joint, SectionGeometry
+from fem.case.model import SECTION_METHODS, Joint, SectionGeometry, Units
 from fem.case.plates import drawn_section
 from fem.results import Finding, MeshInfo
 from fem.section.hand_method import HandChoice, choose_method, thin_wall_peak
@@ -54,6 +54,7 @@ __all__ = ["CutProfile", "SectionCheck", "check_section", "METHODS"]
 
 #: hand methods of a section check; ``auto`` picks by the section (fem.section.hand_method)
 METHODS = SECTION_METHODS
+DEFAULT_UNITS = Units()   # mm, N, MPa: what a bare call means
 
 @dataclass(frozen=True)
 class CutProfile:
@@ -104,7 +105,6 @@ class SectionCheck:
     resultant: dict[str, object]
     mesh: MeshInfo
     timings: dict[str, float]
-    verdict: str
     findings: tuple[Finding, ...]
     solution: SectionSolution | None = field(default=None, repr=False, compare=False)
     joints: tuple[JointFlow, ...] = ()
@@ -141,7 +141,7 @@ class SectionCheck:
                 "equilibrium": {"applied": list(self.resultant["applied"]),
                                 "reactions": list(self.resultant["fe"]),
                                 "relative_error": self.resultant["relative_error"]},
-                "verdict": self.verdict, "findings": [asdict(f) for f in self.findings],
+                "findings": [asdict(f) for f in self.findings],
                 "timings": dict(self.timings),
                 **({"joints": [j.to_dict() for j in self.joints]} if self.joints else {})}
 
@@ -278,7 +278,7 @@ def _profiles(sol: SectionSolution, hs: _HandSide, Vs: tuple[float, float]
     return na, tuple(_cut(sol, hs.o_na, hs.frame, hs.v_eff, e, Vs, 101) for e in levels)
 
 
-def _singular_finding(geom: SectionShape, pk: _FePeaks, hand: float, size: float
+def _singular_finding(geom: SectionShape, pk: _FePeaks, hand: float, size: float, S: str
                       ) -> Finding | None:
     """``singular`` when the raw peak sits at a sharp re-entrant corner."""
     if not _near(pk.at, pk.sharp, 1e-9 * size + 0.5 * size):
@@ -287,16 +287,16 @@ def _singular_finding(geom: SectionShape, pk: _FePeaks, hand: float, size: float
     kc = int(np.argmin(np.linalg.norm(pk.sharp - pk.at, axis=1)))
     alpha = float(geom.sharp_reentrant_angles()[kc])
     return Finding("singular", [float(pk.at[0]), float(pk.at[1])], ratio_raw,
-        f"The FE peak {pk.peak:.4g} sits at a sharp re-entrant corner (material angle "
+        f"The FE peak {pk.peak:.4g} {S} sits at a sharp re-entrant corner (material angle "
         f"{math.degrees(alpha):.0f} degrees), where the elastic shear stress is singular, "
         f"growing like r^({math.pi / alpha - 1:.3f}) towards the corner: it keeps growing "
         f"as the mesh is refined, so its value here depends on the mesh. The headline "
-        f"ratio uses the peak away from the corners, {pk.peak_regular:.4g} ({ratio:.3f} x "
+        f"ratio uses the peak away from the corners, {pk.peak_regular:.4g} {S} ({ratio:.3f} x "
         f"the hand value); the corner peak is {ratio_raw:.3f} x. Model the real root radius "
         f"(fillet) of the corner to get its finite peak.")
 
 
-def _edge_finding(na: CutProfile, method: str, lim: float) -> Finding | None:
+def _edge_finding(na: CutProfile, method: str, lim: float, S: str) -> Finding | None:
     """``edge-excess`` when tau at an end of the neutral axis exceeds the chord formula."""
     na_tau = np.asarray(na.tau_fe)
     s = np.asarray(na.s)
@@ -310,15 +310,15 @@ def _edge_finding(na: CutProfile, method: str, lim: float) -> Finding | None:
     if not (edge_ratio > lim and method != "thin-wall"):  # a chord-formula finding only
         return None
     return Finding("edge-excess", list(p_end), edge_ratio,
-        f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g}, "
-        f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} for that cut: "
+        f"At the end of the neutral axis the FE shear stress is {na_tau[k_end]:.4g} {S}, "
+        f"{edge_ratio:.3f} x the shear formula VQ/(Ib) = {na.tau_hand:.4g} {S} for that cut: "
         f"the formula gives the average along the cut and assumes the stress uniform "
         f"across the width, which fails for wide chords (Poisson effect: for a square "
         f"about 1.13 x, for width = 4 x depth about 2 x, Timoshenko & Goodier).")
 
 
 def _peak_finding(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandSide,
-                  method: str, size: float, lim: float, edge_flagged: bool
+                  method: str, size: float, lim: float, edge_flagged: bool, units: Units
                   ) -> Finding | None:
     """``junction-peak`` (at a flange-web junction or re-entrant corner) or
     ``method-excess`` (elsewhere) when the regular peak exceeds the hand value."""
@@ -326,73 +326,65 @@ def _peak_finding(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _H
         hs.hand
     if not ratio > lim:
         return None
+    S, L = units.stress, units.length
     fillets = geom.filleted_reentrant_corners()
     r_max = max((float(r.radii.max()) for r in geom.rings if r.circle is None and r.radii.size),
                 default=0.0)
     if _near(at_r, fillets, 2.0 * r_max + size) or _near(at_r, pk.sharp, 3.0 * size):
         return Finding("junction-peak", [float(at_r[0]), float(at_r[1])], ratio,
-            f"The peak {peak_r:.4g} is at a flange-web junction / re-entrant corner, "
-            f"{ratio:.3f} x the hand value {hand:.4g}: the hand value averages the stress "
+            f"The peak {peak_r:.4g} {S} at ({at_r[0]:.4g}, {at_r[1]:.4g}) {L} is at a "
+            f"flange-web junction / re-entrant corner, "
+            f"{ratio:.3f} x the hand value {hand:.4g} {S}: the hand value averages the stress "
             f"over the cut and misses the concentration where the section changes width.")
     n = hs.frame[2]
     if edge_flagged and abs((at_r - sol.centroid) @ n) < size:
         return None
     return Finding("method-excess", [float(at_r[0]), float(at_r[1])], ratio,
-        f"The FE peak {peak_r:.4g} at ({at_r[0]:.4g}, {at_r[1]:.4g}) is {ratio:.3f} x "
-        f"the {method} value {hand:.4g}: the hand value is an average (over a cut, or "
-        f"over the whole section), and the elastic stress here is not uniform across "
-        f"the cuts through this point.")
+        f"The FE peak {peak_r:.4g} {S} at ({at_r[0]:.4g}, {at_r[1]:.4g}) {L} is "
+        f"{ratio:.3f} x the {method} value {hand:.4g} {S}: the hand value is an average "
+        f"(over a cut, or over the whole section), and the elastic stress here is not "
+        f"uniform across the cuts through this point.")
 
 
-def _user_finding(pk: _FePeaks, hand_value: float | None, lim: float) -> Finding | None:
+def _user_finding(pk: _FePeaks, hand_value: float | None, lim: float, S: str
+                  ) -> Finding | None:
     """``hand-value`` when the regular peak exceeds the user's own hand value."""
     user_ratio = pk.peak_regular / hand_value if hand_value else None
     if user_ratio is None or not user_ratio > lim:
         return None
     at_r = pk.at_regular
     return Finding("hand-value", [float(at_r[0]), float(at_r[1])], user_ratio,
-        f"The FE peak {pk.peak_regular:.4g} exceeds your hand value {hand_value:.4g} by "
+        f"The FE peak {pk.peak_regular:.4g} {S} exceeds your hand value {hand_value:.4g} {S} by "
         f"{100 * (user_ratio - 1):.1f} %.")
-
-
-def _level_verdict(pk: _FePeaks, hand: float, hand_value: float | None, lim: float,
-                   singular: bool, joints_excess: bool = False) -> str:
-    """This one mesh's word (the case's verdict is `fem.verdict.decide` over the levels)."""
-    ratio, ratio_raw = pk.peak_regular / hand, pk.peak / hand
-    unsafe = ratio > lim or (hand_value is not None and pk.peak_regular / hand_value > lim) \
-        or joints_excess
-    governs = singular and (ratio_raw > lim or (hand_value is not None
-                                                and pk.peak > lim * hand_value))
-    return "unsafe" if unsafe else ("inconclusive" if governs else "holds")
 
 
 def _findings(geom: SectionShape, sol: SectionSolution, pk: _FePeaks, hs: _HandSide,
               na: CutProfile, method: str, size: float, tolerance: float,
-              hand_value: float | None, joints: tuple[JointFlow, ...] = ()
-              ) -> tuple[list[Finding], str]:
-    """Every finding of one mesh, in order (joints last), and that mesh's verdict."""
+              hand_value: float | None, joints: tuple[JointFlow, ...], units: Units
+              ) -> list[Finding]:
+    """Every finding of one mesh, in order (joints last). The verdict is decided from the
+    findings of the finest level by `fem.verdict.decide` (fem.section.check), not here."""
     lim = 1.0 + tolerance
-    singular = _singular_finding(geom, pk, hs.hand, size)
-    edge = _edge_finding(na, method, lim)
+    S = units.stress
+    singular = _singular_finding(geom, pk, hs.hand, size, S)
+    edge = _edge_finding(na, method, lim, S)
     found = [singular, edge,
-             _peak_finding(geom, sol, pk, hs, method, size, lim, edge is not None),
-             _user_finding(pk, hand_value, lim)]
-    jf = joint_findings(joints, tolerance)
-    return ([f for f in found if f is not None] + jf,
-            _level_verdict(pk, hs.hand, hand_value, lim, singular is not None,
-                           any(f.kind == "joint-excess" for f in jf)))
+             _peak_finding(geom, sol, pk, hs, method, size, lim, edge is not None, units),
+             _user_finding(pk, hand_value, lim, S)]
+    return [f for f in found if f is not None] + joint_findings(joints, tolerance, units)
 
 
 def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: float,
                   size: float, order: int = 2, method: str = "auto",
                   tolerance: float = 0.05, hand_value: float | None = None,
                   joints: Sequence[Joint] = (),
-                  check_dofs: Callable[[int], None] | None = None) -> SectionCheck:
+                  check_dofs: Callable[[int], None] | None = None,
+                  units: Units = DEFAULT_UNITS) -> SectionCheck:
     """Solve a section for shear (Vx, Vy) through its shear centre and compare with hand.
 
     The recipe: choose the hand method -> mesh and solve -> FE peaks (`_fe_peaks`) ->
     hand side (`_hand_side`) -> profiles (`_profiles`) -> joints (`joint_flows`) ->
-    findings and this mesh's verdict (`_findings`) -> `SectionCheck` (`_assemble`).
+    findings (`_findings`) -> `SectionCheck` (`_assemble`).
 
     Parameters
     ----------
@@ -409,24 +401,27 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
         :func:`fem.section.hand_method.choose_method`) | ``shear-formula`` | ``thin-wall`` |
         ``average`` | ``single-shear`` | ``double-shear`` (module doc).
     tolerance
-        FE above the hand value by more than this fraction -> ``unsafe``.
+        A finding where the FE exceeds the hand value by more than this fraction.
     hand_value
-        Optional user's own peak shear stress [stress]; exceeded -> ``unsafe``.
+        Optional user's own peak shear stress [stress]; exceeded -> a ``hand-value`` finding.
     joints
         Joint lines (:class:`fem.case.model.Joint`); none given on a ``built-up``
         section -> every plate interface (:func:`fem.section.joints.default_joints`).
     check_dofs
         Called with the real dof count of the mesh before anything is assembled (the size
         guard on the real model, `fem.case.sizing.check_real_dofs`); it raises to stop.
+    units
+        The case's units: the names in the finding messages, and the force unit in which
+        the joint flows are printed (`fem.case.model.Units.user_force`).
 
     Returns
     -------
     SectionCheck
-        Verdict ``holds`` | ``unsafe`` | ``inconclusive`` (a sharp re-entrant corner, where
-        the stress is singular, governs) with findings; one mesh only (a refinement study
-        repeats the call with smaller ``size``).  ``tau_max_regular`` is the peak outside
+        The properties, peaks, profiles and findings of one mesh (a refinement study
+        repeats the call with smaller ``size``; its verdict is `fem.verdict.decide` over
+        the findings, in `fem.section.check`). ``tau_max_regular`` is the peak outside
         discs of radius max(size, 0.05 sqrt(A)) around sharp re-entrant corners; the
-        verdict and the headline ``ratio`` use it; ``tau_max_fe`` and ``ratio_raw`` are
+        findings and the headline ``ratio`` use it; ``tau_max_fe`` and ``ratio_raw`` are
         the peak anywhere (which at a singular corner depends on the mesh).
     """
     if method not in METHODS:
@@ -446,10 +441,10 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
     hs = _hand_side(geom, sol, shape, params, choice.method, (Vx, Vy), Vs)
     na, cuts = _profiles(sol, hs, Vs)
     flows = joint_flows(sol, geom.outline, hs.props, default_joints(shape, params, joints), Vs)
-    findings, verdict = _findings(geom, sol, pk, hs, na, choice.method, size, tolerance,
-                                  hand_value, flows)
+    findings = _findings(geom, sol, pk, hs, na, choice.method, size, tolerance, hand_value,
+                         flows, units)
     return replace(_assemble(shape, choice, geom, smesh, sol, pk, hs, na, cuts, findings,
-                             verdict, E=E, V=(Vx, Vy), Vs=Vs, size=size, order=order,
+                             E=E, V=(Vx, Vy), Vs=Vs, size=size, order=order,
                              tolerance=tolerance, hand_value=hand_value,
                              t_post=time.perf_counter() - t0), joints=flows)
 
@@ -457,7 +452,7 @@ def check_section(shape: str, params: dict, E: float, nu: float, Vx: float, Vy: 
 def _assemble(shape: str, choice: HandChoice, geom: SectionShape, smesh: SectionMesh,
               sol: SectionSolution,
               pk: _FePeaks, hs: _HandSide, na: CutProfile, cuts: tuple[CutProfile, ...],
-              findings: list[Finding], verdict: str, *, E: float, V: tuple[float, float],
+              findings: list[Finding], *, E: float, V: tuple[float, float],
               Vs: tuple[float, float], size: float, order: int, tolerance: float,
               hand_value: float | None, t_post: float) -> SectionCheck:
     """The `SectionCheck` of one mesh from its named parts."""
@@ -488,5 +483,5 @@ def _assemble(shape: str, choice: HandChoice, geom: SectionShape, smesh: Section
                       curved=order == 2 and any(r.circle is not None or bool(r.radii.any())
                                                 or r.bulges is not None for r in geom.rings),
                       solver=sol.solver),
-        timings=timings, verdict=verdict, findings=tuple(findings), solution=sol,
+        timings=timings, findings=tuple(findings), solution=sol,
     )
