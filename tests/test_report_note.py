@@ -21,8 +21,8 @@ from conftest import ROOT
 import fem
 from fem.api import CheckResult, write_outputs
 from fem.case import load_case, parse_case
-from fem.report.blocks import sci
-from fem.report.note import design_note
+from fem.report.blocks import Table, sci
+from fem.report.note import design_note, governing_cut
 from fem.results import CAUTION
 
 DEMO = ROOT / "fem" / "data" / "stub-bracket.toml"
@@ -144,43 +144,107 @@ def test_html_says_what_the_check_found(run):
     assert r.verdict.upper() in text
     for c in r.cuts:
         assert f"x = {c.x:g} mm" in text
-        assert f"= {sci(c.tau_formula_hand)} MPa" in text
+        assert sci(c.tau_formula_hand) in text
+    assert "τ = VQ/(Ib) [MPa]" in text   # the hand table's column, with its unit
     for heading in ("Inputs", "Hand calculation", "Finite-element model", "FE against hand",
                     "Convergence study", "Assumptions and limits"):
         assert heading in text
     assert "plane stress" in text and "small strain" in text
 
 
-def test_hand_calculation_substitutes_its_own_numbers(run):
-    """Each written-out line tau = V Q/(I b) = numbers = result holds to the printed digits
-    (four significant figures), and V/A likewise: the note's arithmetic can be redone."""
-    res, out, _ = run
-    note = design_note(res, [])
-    lines = [ln for s in note.sections if s.title == "Hand calculation" for b in s.items
-             for ln in getattr(b, "text", "").splitlines()]
+_SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-")
+_NUM = r"(−?[\d.]+(?:×10[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)?)"
+# units to SI, so the written-out arithmetic is checked whatever units the case uses
+_SI = {"N": 1.0, "kN": 1e3, "MN": 1e6, "mm": 1e-3, "cm": 1e-2, "m": 1.0,
+       "Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "GPa": 1e9}
 
-    def val(t: str) -> float:
-        t = t.replace("−", "-")
-        m = re.fullmatch(r"(-?[\d.]+)×10([⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)", t)
-        if m:
-            exp = m[2].translate(str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-"))
-            return float(m[1]) * 10 ** int(exp)
-        return float(t)
 
-    num = r"(−?[\d.]+(?:×10[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)?)"
-    taus = [re.search(rf"VQ/\(Ib\) = {num} × {num} / \({num} × {num}\) = {num}", ln)
-            for ln in lines]
-    taus = [m for m in taus if m]
-    assert len(taus) == len(res.result.cuts)
-    for m, c in zip(taus, res.result.cuts, strict=True):
-        V, Q, I, b, tau = (val(m[k]) for k in range(1, 6))  # noqa: E741
-        assert V * Q / (I * b) == pytest.approx(tau, rel=2e-3)
-        assert tau == pytest.approx(c.tau_formula_hand, rel=1e-3)
-    avgs = [re.search(rf"V/A = {num} / {num} = {num}", ln) for ln in lines]
-    avgs = [m for m in avgs if m]
-    assert len(avgs) == len(res.result.cuts)
-    for m in avgs:
-        assert val(m[1]) / val(m[2]) == pytest.approx(val(m[3]), rel=2e-3)
+def _val(t: str) -> float:
+    t = t.replace("−", "-")
+    m = re.fullmatch(r"(-?[\d.]+)×10([⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)", t)
+    if m:
+        return float(m[1]) * 10 ** int(m[2].translate(_SUPERSCRIPT))
+    return float(t)
+
+
+def _si(value: str, unit: str) -> float:
+    """A printed value with its unit ('mm³', 'N·mm', 'MPa') in SI."""
+    factor = 1.0
+    for part in unit.split("·"):
+        power = {"²": 2, "³": 3, "⁴": 4}.get(part[-1], 1)
+        factor *= _SI[part.rstrip("²³⁴")] ** power
+    return _val(value) * factor
+
+
+def _hand_section(note):
+    return next(s for s in note.sections if s.title == "Hand calculation")
+
+
+def test_hand_calculation_writes_out_the_governing_cut_with_units(run):
+    """One cut written out, every value with its unit; each substituted line
+    τ = VQ/(Ib) = V F × Q L³ / (I L⁴ × b L) = τ S (and V/A, σ = |M|c/I) holds in SI to the
+    printed digits, so the arithmetic reads right whatever the force and stress units."""
+    res, _, _ = run
+    sec = _hand_section(design_note(res, []))
+    blocks = [b for b in sec.items if getattr(b, "style", "") == "formula"]
+    assert len(blocks) == 1
+    text = blocks[0].text
+    u = r"(\S+)"
+    m = re.search(rf"VQ/\(Ib\) = {_NUM} {u} × {_NUM} {u} / \({_NUM} {u} × {_NUM} {u}\) "
+                  rf"= {_NUM} {u}", text)
+    assert m, text
+    V, Q, I, b, tau = (_si(m[k], m[k + 1]) for k in (1, 3, 5, 7, 9))  # noqa: E741
+    assert (m[2], m[4], m[6], m[8], m[10]) == ("N", "mm³", "mm⁴", "mm", "MPa")
+    assert V * Q / (I * b) == pytest.approx(tau, rel=2e-3)
+    m = re.search(rf"V/A = {_NUM} {u} / {_NUM} {u} = {_NUM} {u}", text)
+    assert _si(m[1], m[2]) / _si(m[3], m[4]) == pytest.approx(_si(m[5], m[6]), rel=2e-3)
+    m = re.search(rf"σ = \|M\|c/I = {_NUM} {u} × {_NUM} {u} / {_NUM} {u} = {_NUM} {u}", text)
+    M, c, I2, sigma = (_si(m[k], m[k + 1]) for k in (1, 3, 5, 7))
+    assert M * c / I2 == pytest.approx(sigma, rel=2e-3)
+
+
+def test_hand_calculation_tabulates_every_cut(run):
+    """One table, one row per cut, each header with its unit; forces and stresses are the
+    result's own (CutResult), so the table and the comparison agree."""
+    res, _, _ = run
+    sec = _hand_section(design_note(res, []))
+    tables = [t for t in sec.items if isinstance(t, Table)]
+    assert len(tables) == 1
+    t = tables[0]
+    cuts = res.result.cuts
+    assert len(t.rows) == len(cuts) >= 2
+    col = {h.split(" [")[0]: j for j, h in enumerate(t.header)}
+    for h in t.header[1:]:
+        assert re.search(r"\[.+\]$", h), h   # a unit on every column but the cut number
+    for row, c in zip(t.rows, cuts, strict=True):
+        assert row[col["x"]] == f"{c.x:g}"
+        assert row[col["V"]] == sci(c.V_hand) and row[col["M"]] == sci(c.M_hand)
+        assert row[col["τ = VQ/(Ib)"]] == sci(c.tau_formula_hand)
+        assert row[col["V/A"]] == sci(c.tau_avg_hand)
+        assert row[col["A"]] == sci(c.A) and row[col["I"]] == sci(c.I)
+    assert "N" not in col   # no axial force in the demo: no N column
+
+
+def test_the_written_out_cut_is_the_one_with_the_largest_ratio(run):
+    """Of the fixture's two cuts, the one through the hole (x = 100) has the larger FE/hand
+    ratio, so it is written out and highlighted, not the first; with no ratio at all, the
+    largest hand stress governs."""
+    res, _, _ = run
+    cuts = res.result.cuts
+    worst = max(range(len(cuts)), key=lambda k: cuts[k].ratio)
+    assert worst != 0 and cuts[worst].x == 100.0
+    assert governing_cut(cuts) == worst
+    sec = _hand_section(design_note(res, []))
+    block = next(b for b in sec.items if getattr(b, "style", "") == "formula")
+    assert block.text.startswith(f"Cut {worst + 1} (governs: largest FE/hand ratio), "
+                                 f"x = {cuts[worst].x:g} mm")
+    assert f"Cut {worst + 1} (governs: largest FE/hand ratio) is written out" in \
+        sec.items[0].text
+    table = next(t for t in sec.items if isinstance(t, Table))
+    assert table.marked == {worst}
+    unrated = [replace(c, ratio=None) for c in cuts]
+    assert governing_cut(unrated) == max(range(len(cuts)),
+                                         key=lambda k: cuts[k].tau_max_hand)
 
 
 def _pdf_pages(path: Path) -> list[str]:

@@ -33,7 +33,8 @@ from fem.report.section_note import (
 )
 from fem.results import CAUTION, atomic_write
 
-__all__ = ["design_note", "write_report", "title_block", "KEY_FIGURES", "PDF_MISSING"]
+__all__ = ["design_note", "write_report", "title_block", "governing_cut", "KEY_FIGURES",
+           "PDF_MISSING"]
 
 # ----------------------------------------------------------------------------- content
 
@@ -98,45 +99,98 @@ def _inputs(res: Any) -> Section:
     return s
 
 
+def governing_cut(cuts: list[Any]) -> int:
+    """Index of the cut the note writes out in full: the one with the largest FE/hand
+    ratio; where no cut has a ratio, the one with the largest hand shear stress."""
+    rated = [k for k, c in enumerate(cuts) if c.ratio is not None]
+    if rated:
+        return max(rated, key=lambda k: cuts[k].ratio)
+    return max(range(len(cuts)), key=lambda k: abs(cuts[k].tau_max_hand or 0.0))
+
+
+def _strip_ranges(sec: Any) -> str:
+    return ", ".join(f"{sci(y0)}–{sci(y1)}" for y0, y1, _ in sec.strips)
+
+
+def _worked_cut(k: int, c: Any, h: Any, r: Any, why: str, L: str, F: str, S: str) -> Block:
+    """Cut `k` (1-based) written out, every value with its unit, so the arithmetic reads
+    right whatever the force and stress units. Forces and stresses from the result
+    (`c`, a `CutResult`); only the geometry (Q, b, strips, c) from the hand side (`h`)."""
+    sec, yq = h.section, h.y_at_tau_max
+    Q, b, cfib = float(sec.first_moment(yq)), float(sec.width(yq)), sec.fibre_distance()
+    A2, A3, A4, FL = f"{L}²", f"{L}³", f"{L}⁴", f"{F}·{L}"
+    strips = " + ".join(f"{t:g} {L} × {sci(y1 - y0)} {L}" for y0, y1, t in sec.strips)
+    N = abs(c.N_hand) > 0
+    lines = [
+        f"Cut {k} ({why}), x = {c.x:g} {L}: material from y = "
+        + ", ".join(f"{sci(y0)} to {sci(y1)}" for y0, y1, _ in sec.strips) + f" {L}",
+        f"  A = Σ t·h = {strips} = {sci(c.A)} {A2}",
+        f"  ȳ = {sci(c.centroid_y)} {L};   I = Σ t[(y₁−ȳ)³ − (y₀−ȳ)³]/3 = {sci(c.I)} {A4}",
+        f"  V = {sci(c.V_hand)} {F};   M = {sci(c.M_hand)} {FL}"
+        + (f";   N = {sci(c.N_hand)} {F}" if N else ""),
+        f"  at y = {sci(yq)} {L}:  Q = {sci(Q)} {A3},  b = {sci(b)} {L}",
+        f"  τ = VQ/(Ib) = {sci(abs(c.V_hand))} {F} × {sci(Q)} {A3} / ({sci(c.I)} {A4} × "
+        f"{sci(b)} {L}) = {sci(c.tau_formula_hand)} {S}",
+        f"  V/A = {sci(abs(c.V_hand))} {F} / {sci(c.A)} {A2} = {sci(c.tau_avg_hand)} {S}",
+        ("  σ = |N|/A + |M|c/I = " f"{sci(abs(c.N_hand))} {F} / {sci(c.A)} {A2} + "
+         if N else "  σ = |M|c/I = ")
+        + f"{sci(abs(c.M_hand))} {FL} × {sci(cfib)} {L} / {sci(c.I)} {A4} = "
+        + f"{sci(c.sigma_x_max_hand)} {S}   (c = {sci(cfib)} {L}, extreme fibre from ȳ)",
+    ]
+    if r.hand_method != "shear-formula":
+        lines.append(f"  hand value of the {r.hand_method} method: {sci(c.tau_max_hand)} {S}")
+    return Block("\n".join(lines), "formula")
+
+
+def _cut_table(r: Any, hands: list[Any], worked: int, L: str, F: str, S: str) -> Table:
+    """Every cut's hand calculation in one row: section, forces, the shear formula at its
+    worst level, V/A and the bending stress, each column with its unit; the row of the
+    cut written out (index `worked`) highlighted."""
+    N = any(abs(c.N_hand) > 0 for c in r.cuts)
+    method = r.hand_method != "shear-formula"
+    head = ["cut", f"x [{L}]", f"material y [{L}]", f"A [{L}²]", f"ȳ [{L}]", f"I [{L}⁴]",
+            f"V [{F}]", f"M [{F}·{L}]", *([f"N [{F}]"] if N else []), f"y at τmax [{L}]",
+            f"Q [{L}³]", f"b [{L}]", f"τ = VQ/(Ib) [{S}]", f"V/A [{S}]",
+            f"σ = |N|/A + |M|c/I [{S}]" if N else f"σ = |M|c/I [{S}]",
+            *([f"{r.hand_method} [{S}]"] if method else [])]
+    rows = []
+    for k, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
+        sec, yq = h.section, h.y_at_tau_max
+        rows.append([str(k), f"{c.x:g}", _strip_ranges(sec), sci(c.A), sci(c.centroid_y),
+                     sci(c.I), sci(c.V_hand), sci(c.M_hand),
+                     *([sci(c.N_hand)] if N else []), sci(yq),
+                     sci(float(sec.first_moment(yq))), sci(float(sec.width(yq))),
+                     sci(c.tau_formula_hand), sci(c.tau_avg_hand), sci(c.sigma_x_max_hand),
+                     *([sci(c.tau_max_hand)] if method else [])])
+    return Table(head, rows, f"Hand calculation at every cut, the same steps as cut "
+                 f"{worked + 1} above (highlighted)", marked={worked})
+
+
 def _hand(res: Any) -> Section:
+    """The method in words, the governing cut written out with its numbers, then every
+    cut in one table."""
     (L, F, S), r = _units(res), res.result
     if res.case.kind != "beam":
         return section_hand(res)
     s = Section("Hand calculation")
-    s.items.append(Block(
-        "At each cut x the section is the stack of material strips met by the vertical line "
-        "(width b = plate thickness t). V and M come from statics of the member as a beam on "
-        "the idealised supports; M is taken about the centroid of the cut. The shear formula "
-        "τ = VQ/(Ib) is evaluated over the depth and its largest value is shown; Q is the "
-        "first moment of the area above that level about the centroid."))
+    words = ("At each cut x the section is the stack of material strips met by the vertical "
+             "line (width b = plate thickness t). V and M come from statics of the member as a "
+             "beam on the idealised supports; M is taken about the centroid of the cut. The "
+             "shear formula τ = VQ/(Ib) is evaluated over the depth and its largest value is "
+             "shown; Q is the first moment of the area above that level about the centroid.")
     hands = res.run.finest.cuts_hand if res.run is not None else []
-    A2, A3, A4 = f"{L}²", f"{L}³", f"{L}⁴"
-    for i, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
-        sec = h.section
-        yq = h.y_at_tau_max
-        Q = float(sec.first_moment(yq))
-        b = float(sec.width(yq))
-        cfib = sec.fibre_distance()
-        strips = " + ".join(f"{t:g}×{sci(y1 - y0)}" for y0, y1, t in sec.strips)
-        lines = [
-            f"Cut {i}, x = {c.x:g} {L}: material from y = "
-            + ", ".join(f"{sci(y0)} to {sci(y1)}" for y0, y1, _ in sec.strips) + f" {L}",
-            f"  A = Σ t·h = {strips} = {sci(c.A)} {A2}",
-            f"  ȳ = {sci(c.centroid_y)} {L};   I = Σ t[(y₁−ȳ)³ − (y₀−ȳ)³]/3 = {sci(c.I)} {A4}",
-            f"  V = {sci(c.V_hand)} {F};   M = {sci(c.M_hand)} {F}·{L}"
-            + (f";   N = {sci(c.N_hand)} {F}" if abs(c.N_hand) > 0 else ""),
-            f"  at y = {sci(yq)} {L}:  Q = {sci(Q)} {A3},  b = {sci(b)} {L}",
-            f"  τ = VQ/(Ib) = {sci(abs(c.V_hand))} × {sci(Q)} / ({sci(c.I)} × {sci(b)}) "
-            f"= {sci(c.tau_formula_hand)} {S}",
-            f"  V/A = {sci(abs(c.V_hand))} / {sci(c.A)} = {sci(c.tau_avg_hand)} {S}",
-            (f"  σ = |N|/A + |M|c/I = {sci(abs(c.N_hand))}/{sci(c.A)} + "
-             if abs(c.N_hand) > 0 else "  σ = |M|c/I = ")
-            + f"{sci(abs(c.M_hand))} × {sci(cfib)} / {sci(c.I)} = {sci(c.sigma_x_max_hand)} {S}"
-            + f"   (c = {sci(cfib)} {L})",
-        ]
-        if r.hand_method != "shear-formula":
-            lines.append(f"  hand value of the {r.hand_method} method: {sci(c.tau_max_hand)} {S}")
-        s.items.append(Block("\n".join(lines), "formula"))
+    if not r.cuts or len(hands) != len(r.cuts):
+        s.items.append(Block(words))
+        return s
+    k = governing_cut(r.cuts)
+    rated = any(c.ratio is not None for c in r.cuts)
+    why = "governs: largest FE/hand ratio" if rated else "governs: largest hand shear stress"
+    if len(r.cuts) > 1:
+        words += (f" Cut {k + 1} ({why}) is written out; the other cuts follow the same "
+                  "steps, tabulated below.")
+    s.items.append(Block(words))
+    s.items.append(_worked_cut(k + 1, r.cuts[k], hands[k], r, why, L, F, S))
+    s.items.append(_cut_table(r, hands, k, L, F, S))
     return s
 
 
