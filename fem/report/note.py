@@ -1,14 +1,17 @@
 """The design note of a check: one self-contained HTML file and a PDF, from the same content.
 
 `design_note(res, figures)` gathers what an engineer needs to follow and defend the check,
-in order: the verdict in plain words, the inputs, the hand calculation written out with
-the numbers substituted, the FE model and its equilibrium, FE against hand per cut, the
-convergence study, the figures, the assumptions and the caution. Every number comes from
-the result dataclasses (`fem.results`) or the hand side of the finest level
-(`fem.member.hand.CutHand`), so each can be traced by name. `fem.report.html` renders the note
-as one page with the figures as data URIs and the styles inline (no external file, link,
-script or font); `fem.report.pdf` draws the same text and tables with matplotlib, then one
-page per figure.
+in order: a first page that is the summary (the verdict in plain words, the findings in
+short, the comparison table and the key figure), then the findings in full, the inputs,
+the hand calculation (the governing cut written out with its numbers and units, every cut
+in one table), the FE model and its equilibrium, FE against hand per cut, the deflection,
+the convergence study, the other figures (in `FIGURE_ORDER`, so upright ones pair side by
+side), the assumptions with the caution, and the provenance and the case file as run in
+two appendices. Every number comes from the result dataclasses (`fem.results`) or, for
+the geometry of a cut, the hand side of the finest level (`fem.member.hand.CutHand`), so
+each can be traced by name. `fem.report.html` renders the note as one page with the
+figures as data URIs and the styles inline (no external file, link, script or font);
+`fem.report.pdf` typesets the same note on A4 pages with ReportLab.
 """
 
 from __future__ import annotations
@@ -33,8 +36,8 @@ from fem.report.section_note import (
 )
 from fem.results import CAUTION, atomic_write
 
-__all__ = ["design_note", "write_report", "title_block", "governing_cut", "KEY_FIGURES",
-           "PDF_MISSING"]
+__all__ = ["design_note", "write_report", "title_block", "governing_cut", "figure_order",
+           "KEY_FIGURES", "FIGURE_ORDER", "PDF_MISSING"]
 
 # ----------------------------------------------------------------------------- content
 
@@ -479,6 +482,20 @@ def _caption(res: Any, p: Path) -> str:
 
 KEY_FIGURES = ("ratio-along-member", "section-shear", "shear-contour")
 
+# the figures after the summary, in an order that pairs the upright ones side by side:
+# model beside mesh, the two contour plots, the section's own figures, then the wide ones
+FIGURE_ORDER = ("model", "mesh", "shear-contour", "von-mises-contour", "section-shear",
+                "section-flow", "neutral-axis-profile", "wall-flow", "profiles", "planes",
+                "convergence")
+
+
+def figure_order(figs: list[Figure]) -> list[Figure]:
+    """`figs` in `FIGURE_ORDER`; a figure not named there goes before the convergence
+    figure, in the order given."""
+    last = FIGURE_ORDER.index("convergence")
+    return sorted(figs, key=lambda f: FIGURE_ORDER.index(f.path.stem)
+                  if f.path.stem in FIGURE_ORDER else last - 0.5)
+
 
 def _key_figure(figs: list[Figure]) -> Figure | None:
     """The summary's figure: the ratio along the member (beams), the section's |τ|."""
@@ -504,12 +521,12 @@ def _appendix(res: Any) -> list[Section]:
         pairs = [("shearcheck", prov.get("shearcheck")), ("Python", prov.get("python"))]
         pairs += list((prov.get("packages") or {}).items())
         pairs += [("run (UTC)", prov.get("run_utc")), ("platform", prov.get("platform"))]
-        half = -(-len(pairs) // 2)
-        left, right = pairs[:half], pairs[half:] + [("", "")] * (2 * half - len(pairs))
-        rows = [[a, str(va), b, str(vb)] for (a, va), (b, vb) in zip(left, right, strict=True)]
+        per_row = 3   # (software, version) pairs side by side, read down each pair
+        n = -(-len(pairs) // per_row)
+        pairs += [("", "")] * (n * per_row - len(pairs))
+        rows = [[str(v) for j in range(per_row) for v in pairs[j * n + i]] for i in range(n)]
         out.append(Section("Appendix A: provenance", [
-            Table(["software", "version", "software", "version"], rows,
-                  "What produced this note"),
+            Table(["software", "version"] * per_row, rows, "What produced this note"),
             Block(f"Case file {prov.get('case_file')}, SHA-256 {prov.get('case_sha256')}; "
                   f"run {prov.get('run_utc')}. Running the case file of Appendix B with these "
                   "versions reproduces this note.", "small")]))
@@ -524,8 +541,9 @@ def design_note(res: Any, figures: list[Path]) -> Note:
 
     First page (the summary): the verdict, the findings, the key figure and the comparison
     table; then the findings in full, the inputs, the hand calculation, the FE model, the
-    rest of the comparison, the deflection, the convergence study, the assumptions, the
-    other figures two to a page, and the provenance and case file in the appendices.
+    rest of the comparison, the deflection, the convergence study, the other figures (a
+    `pair` section: upright ones side by side), the assumptions, and the provenance and
+    case file in the appendices.
     """
     r, c = res.result, res.case
     paths = [Path(p) for p in figures if Path(p).suffix == ".png"]
@@ -551,10 +569,10 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     if defl is not None:
         sections.append(defl)
     sections.append(_convergence(res))
-    sections.append(_assumptions(res))
-    others = [f for f in figs if f is not key]
+    others = figure_order([f for f in figs if f is not key])
     if others:
         sections.append(Section("Figures", list(others), pair=True))
+    sections.append(_assumptions(res))   # with the caution, closing the note's body
     sections += _appendix(res)
     prov = r.provenance or {}
     version = prov.get("shearcheck")
