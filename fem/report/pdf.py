@@ -478,17 +478,20 @@ SHORT = 0.2   # a section at most this part of a page high is never split over t
 class _Together(KeepTogether):
     """ReportLab's KeepTogether (a heading with what follows it), measured as placed:
     each item gets the height left under those above it, so a figure row that would
-    shrink to fit the rest of the page is measured shrunk, not at its full size."""
+    shrink to fit the rest of the page is measured shrunk, not at its full size. (Our
+    documents generate no content while wrapping, so the frame copy ReportLab's own
+    measure makes for that is not needed.)"""
 
     def wrap(self, avail_w: float, avail_h: float) -> tuple[float, float]:
-        size = super().wrap(avail_w, avail_h)
-        used = 0.0
+        used = first = 0.0
         for k, f in enumerate(self._content):
-            used += (f.getSpaceBefore() if k else 0.0)
-            used += f.wrapOn(self.canv, avail_w, max(avail_h - used, 0.0))[1]
-            used += f.getSpaceAfter()
-        self._H = min(self._H, used)
-        return size
+            if k:
+                used += f.getSpaceBefore()
+            h = f.wrapOn(self.canv, avail_w, max(avail_h - used, 0.0))[1]
+            first = first if k else h
+            used += h + f.getSpaceAfter()
+        self._H, self._H0, self._wrapInfo = used, first, (avail_w, avail_h)
+        return avail_w, 0xffffff   # as KeepTogether: always asked to split
 
 
 class _KeepShort(_Together):
