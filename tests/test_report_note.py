@@ -245,6 +245,9 @@ def test_the_written_out_cut_is_the_one_with_the_largest_ratio(run):
     unrated = [replace(c, ratio=None) for c in cuts]
     assert governing_cut(unrated) == max(range(len(cuts)),
                                          key=lambda k: cuts[k].tau_max_hand)
+    tension = [replace(c, ratio=None, tau_max_hand=0.0, sigma_x_max_hand=s)
+               for c, s in zip(cuts, (50.0, 80.0), strict=True)]
+    assert governing_cut(tension) == 1   # no shear anywhere: the largest normal stress
 
 
 def _pdf_pages(path: Path) -> list[str]:

@@ -104,11 +104,22 @@ def _inputs(res: Any) -> Section:
 
 def governing_cut(cuts: list[Any]) -> int:
     """Index of the cut the note writes out in full: the one with the largest FE/hand
-    ratio; where no cut has a ratio, the one with the largest hand shear stress."""
+    ratio; where no cut has a ratio, the one with the largest hand shear stress, and
+    where no cut carries shear either (a bar in tension), the largest normal stress."""
     rated = [k for k, c in enumerate(cuts) if c.ratio is not None]
     if rated:
         return max(rated, key=lambda k: cuts[k].ratio)
-    return max(range(len(cuts)), key=lambda k: abs(cuts[k].tau_max_hand or 0.0))
+    return max(range(len(cuts)), key=lambda k: (abs(cuts[k].tau_max_hand or 0.0),
+                                                abs(cuts[k].sigma_x_max_hand or 0.0)))
+
+
+def _why(cuts: list[Any]) -> str:
+    """Why `governing_cut` chose its cut, in the note's words."""
+    if any(c.ratio is not None for c in cuts):
+        return "governs: largest FE/hand ratio"
+    if any(c.tau_max_hand for c in cuts):
+        return "governs: largest hand shear stress"
+    return "no shear at any cut: largest normal stress"
 
 
 def _strip_ranges(sec: Any) -> str:
@@ -155,7 +166,7 @@ def _cut_table(r: Any, hands: list[Any], worked: int, L: str, F: str, S: str) ->
             f"V [{F}]", f"M [{F}·{L}]", *([f"N [{F}]"] if N else []), f"y at τmax [{L}]",
             f"Q [{L}³]", f"b [{L}]", f"τ = VQ/(Ib) [{S}]", f"V/A [{S}]",
             f"σ = |N|/A + |M|c/I [{S}]" if N else f"σ = |M|c/I [{S}]",
-            *([f"{r.hand_method} [{S}]"] if method else [])]
+            *([f"hand value, {r.hand_method} [{S}]"] if method else [])]
     rows = []
     for k, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
         sec, yq = h.section, h.y_at_tau_max
@@ -185,9 +196,7 @@ def _hand(res: Any) -> Section:
     if not r.cuts or len(hands) != len(r.cuts):
         s.items.append(Block(words))
         return s
-    k = governing_cut(r.cuts)
-    rated = any(c.ratio is not None for c in r.cuts)
-    why = "governs: largest FE/hand ratio" if rated else "governs: largest hand shear stress"
+    k, why = governing_cut(r.cuts), _why(r.cuts)
     if len(r.cuts) > 1:
         words += (f" Cut {k + 1} ({why}) is written out; the other cuts follow the same "
                   "steps, tabulated below.")
