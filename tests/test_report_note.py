@@ -21,8 +21,8 @@ from conftest import ROOT
 import fem
 from fem.api import CheckResult, write_outputs
 from fem.case import load_case, parse_case
-from fem.report.blocks import sci
-from fem.report.note import design_note
+from fem.report.blocks import Table, figure_rows, sci
+from fem.report.note import design_note, governing_cut
 from fem.results import CAUTION
 
 DEMO = ROOT / "fem" / "data" / "stub-bracket.toml"
@@ -144,43 +144,110 @@ def test_html_says_what_the_check_found(run):
     assert r.verdict.upper() in text
     for c in r.cuts:
         assert f"x = {c.x:g} mm" in text
-        assert f"= {sci(c.tau_formula_hand)} MPa" in text
+        assert sci(c.tau_formula_hand) in text
+    assert "τ = VQ/(Ib) [MPa]" in text   # the hand table's column, with its unit
     for heading in ("Inputs", "Hand calculation", "Finite-element model", "FE against hand",
                     "Convergence study", "Assumptions and limits"):
         assert heading in text
     assert "plane stress" in text and "small strain" in text
 
 
-def test_hand_calculation_substitutes_its_own_numbers(run):
-    """Each written-out line tau = V Q/(I b) = numbers = result holds to the printed digits
-    (four significant figures), and V/A likewise: the note's arithmetic can be redone."""
-    res, out, _ = run
-    note = design_note(res, [])
-    lines = [ln for s in note.sections if s.title == "Hand calculation" for b in s.items
-             for ln in getattr(b, "text", "").splitlines()]
+_SUPERSCRIPT = str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-")
+_NUM = r"(−?[\d.]+(?:×10[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)?)"
+# units to SI, so the written-out arithmetic is checked whatever units the case uses
+_SI = {"N": 1.0, "kN": 1e3, "MN": 1e6, "mm": 1e-3, "cm": 1e-2, "m": 1.0,
+       "Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "GPa": 1e9}
 
-    def val(t: str) -> float:
-        t = t.replace("−", "-")
-        m = re.fullmatch(r"(-?[\d.]+)×10([⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)", t)
-        if m:
-            exp = m[2].translate(str.maketrans("⁰¹²³⁴⁵⁶⁷⁸⁹⁻", "0123456789-"))
-            return float(m[1]) * 10 ** int(exp)
-        return float(t)
 
-    num = r"(−?[\d.]+(?:×10[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)?)"
-    taus = [re.search(rf"VQ/\(Ib\) = {num} × {num} / \({num} × {num}\) = {num}", ln)
-            for ln in lines]
-    taus = [m for m in taus if m]
-    assert len(taus) == len(res.result.cuts)
-    for m, c in zip(taus, res.result.cuts, strict=True):
-        V, Q, I, b, tau = (val(m[k]) for k in range(1, 6))  # noqa: E741
-        assert V * Q / (I * b) == pytest.approx(tau, rel=2e-3)
-        assert tau == pytest.approx(c.tau_formula_hand, rel=1e-3)
-    avgs = [re.search(rf"V/A = {num} / {num} = {num}", ln) for ln in lines]
-    avgs = [m for m in avgs if m]
-    assert len(avgs) == len(res.result.cuts)
-    for m in avgs:
-        assert val(m[1]) / val(m[2]) == pytest.approx(val(m[3]), rel=2e-3)
+def _val(t: str) -> float:
+    t = t.replace("−", "-")
+    m = re.fullmatch(r"(-?[\d.]+)×10([⁰¹²³⁴⁵⁶⁷⁸⁹⁻]+)", t)
+    if m:
+        return float(m[1]) * 10 ** int(m[2].translate(_SUPERSCRIPT))
+    return float(t)
+
+
+def _si(value: str, unit: str) -> float:
+    """A printed value with its unit ('mm³', 'N·mm', 'MPa') in SI."""
+    factor = 1.0
+    for part in unit.split("·"):
+        power = {"²": 2, "³": 3, "⁴": 4}.get(part[-1], 1)
+        factor *= _SI[part.rstrip("²³⁴")] ** power
+    return _val(value) * factor
+
+
+def _hand_section(note):
+    return next(s for s in note.sections if s.title == "Hand calculation")
+
+
+def test_hand_calculation_writes_out_the_governing_cut_with_units(run):
+    """One cut written out, every value with its unit; each substituted line
+    τ = VQ/(Ib) = V F × Q L³ / (I L⁴ × b L) = τ S (and V/A, σ = |M|c/I) holds in SI to the
+    printed digits, so the arithmetic reads right whatever the force and stress units."""
+    res, _, _ = run
+    sec = _hand_section(design_note(res, []))
+    blocks = [b for b in sec.items if getattr(b, "style", "") == "formula"]
+    assert len(blocks) == 1
+    text = blocks[0].text
+    u = r"(\S+)"
+    m = re.search(rf"VQ/\(Ib\) = {_NUM} {u} × {_NUM} {u} / \({_NUM} {u} × {_NUM} {u}\) "
+                  rf"= {_NUM} {u}", text)
+    assert m, text
+    V, Q, I, b, tau = (_si(m[k], m[k + 1]) for k in (1, 3, 5, 7, 9))  # noqa: E741
+    assert (m[2], m[4], m[6], m[8], m[10]) == ("N", "mm³", "mm⁴", "mm", "MPa")
+    assert V * Q / (I * b) == pytest.approx(tau, rel=2e-3)
+    m = re.search(rf"V/A = {_NUM} {u} / {_NUM} {u} = {_NUM} {u}", text)
+    assert _si(m[1], m[2]) / _si(m[3], m[4]) == pytest.approx(_si(m[5], m[6]), rel=2e-3)
+    m = re.search(rf"σ = \|M\|c/I = {_NUM} {u} × {_NUM} {u} / {_NUM} {u} = {_NUM} {u}", text)
+    M, c, I2, sigma = (_si(m[k], m[k + 1]) for k in (1, 3, 5, 7))
+    assert M * c / I2 == pytest.approx(sigma, rel=2e-3)
+
+
+def test_hand_calculation_tabulates_every_cut(run):
+    """One table, one row per cut, each header with its unit; forces and stresses are the
+    result's own (CutResult), so the table and the comparison agree."""
+    res, _, _ = run
+    sec = _hand_section(design_note(res, []))
+    tables = [t for t in sec.items if isinstance(t, Table)]
+    assert len(tables) == 1
+    t = tables[0]
+    cuts = res.result.cuts
+    assert len(t.rows) == len(cuts) >= 2
+    col = {h.split(" [")[0]: j for j, h in enumerate(t.header)}
+    for h in t.header[1:]:
+        assert re.search(r"\[.+\]$", h), h   # a unit on every column but the cut number
+    for row, c in zip(t.rows, cuts, strict=True):
+        assert row[col["x"]] == f"{c.x:g}"
+        assert row[col["V"]] == sci(c.V_hand) and row[col["M"]] == sci(c.M_hand)
+        assert row[col["τ = VQ/(Ib)"]] == sci(c.tau_formula_hand)
+        assert row[col["V/A"]] == sci(c.tau_avg_hand)
+        assert row[col["A"]] == sci(c.A) and row[col["I"]] == sci(c.I)
+    assert "N" not in col   # no axial force in the demo: no N column
+
+
+def test_the_written_out_cut_is_the_one_with_the_largest_ratio(run):
+    """Of the fixture's two cuts, the one through the hole (x = 100) has the larger FE/hand
+    ratio, so it is written out and highlighted, not the first; with no ratio at all, the
+    largest hand stress governs."""
+    res, _, _ = run
+    cuts = res.result.cuts
+    worst = max(range(len(cuts)), key=lambda k: cuts[k].ratio)
+    assert worst != 0 and cuts[worst].x == 100.0
+    assert governing_cut(cuts) == worst
+    sec = _hand_section(design_note(res, []))
+    block = next(b for b in sec.items if getattr(b, "style", "") == "formula")
+    assert block.text.startswith(f"Cut {worst + 1} (governs: largest FE/hand ratio), "
+                                 f"x = {cuts[worst].x:g} mm")
+    assert f"Cut {worst + 1} (governs: largest FE/hand ratio) is written out" in \
+        sec.items[0].text
+    table = next(t for t in sec.items if isinstance(t, Table))
+    assert table.marked == {worst}
+    unrated = [replace(c, ratio=None) for c in cuts]
+    assert governing_cut(unrated) == max(range(len(cuts)),
+                                         key=lambda k: cuts[k].tau_max_hand)
+    tension = [replace(c, ratio=None, tau_max_hand=0.0, sigma_x_max_hand=s)
+               for c, s in zip(cuts, (50.0, 80.0), strict=True)]
+    assert governing_cut(tension) == 1   # no shear anywhere: the largest normal stress
 
 
 def _pdf_pages(path: Path) -> list[str]:
@@ -197,7 +264,7 @@ def test_pdf_pages_carry_title_block_page_numbers_and_caution(run):
     assert pdf.startswith(b"%PDF") and pdf.rstrip().endswith(b"%%EOF")
     pages = _pdf_pages(out / "report.pdf")
     n = len(pages)
-    assert 4 <= n <= 9
+    assert 4 <= n <= 6
     assert n == _pages(pdf)
     for k, text in enumerate(pages, start=1):
         assert f"page {k} of {n}" in text
@@ -212,14 +279,72 @@ def test_pdf_pages_carry_title_block_page_numbers_and_caution(run):
     assert "checked_by" not in res.data["project"] and res.data["project"]["job"] == "J-2291"
 
 
-def test_pdf_figures_two_to_a_page(run):
-    """The figures section: never more than two figures on a page, and at least one page
-    holds two."""
-    _, out, files = run
-    pages = _pdf_pages(out / "report.pdf")
-    per_page = [len(re.findall(r"Figure \d+\.", t)) for t in pages]
-    assert sum(per_page) == len(_note_pngs(files))
-    assert max(per_page) == 2
+def _captions(path: Path) -> list[dict[int, tuple[float, float]]]:
+    """Per page: figure number -> (x, y) in points where its caption "Figure N." starts."""
+    from pypdf import PdfReader
+
+    pages = []
+    for pg in PdfReader(path).pages:
+        found: dict[int, tuple[float, float]] = {}
+
+        def visit(text, cm, tm, _font, _size, found=found):
+            m = re.match(r"Figure (\d+)\.", text)
+            if m:
+                found[int(m[1])] = (cm[4] + tm[4], cm[5] + tm[5])
+
+        pg.extract_text(visitor_text=visit)
+        pages.append(found)
+    return pages
+
+
+def test_pdf_figures_two_rows_a_page_upright_ones_side_by_side(run):
+    """Every figure once; no page holds more than two rows of figures; the model and the
+    mesh (both about as tall as wide) share a row, side by side, and so do the two
+    contour plots; the wide convergence figure has a row of its own."""
+    res, out, files = run
+    pages = _captions(out / "report.pdf")
+    where = {n: (k, xy) for k, page in enumerate(pages) for n, xy in page.items()}
+    assert sorted(where) == list(range(1, len(_note_pngs(files)) + 1))
+    for page in pages:
+        assert len({round(y) for _, y in page.values()}) <= 2   # rows: caption levels
+    number = {f.path.stem: k for k, f in enumerate(design_note(res, files).figures, start=1)}
+
+    def side_by_side(a: str, b: str) -> bool:
+        (pa, (xa, ya)), (pb, (xb, yb)) = where[number[a]], where[number[b]]
+        return pa == pb and abs(ya - yb) < 1 and xb - xa > 200   # half the page over
+
+    assert number["mesh"] == number["model"] + 1
+    assert side_by_side("model", "mesh")
+    assert side_by_side("shear-contour", "von-mises-contour")
+    conv = where[number["convergence"]]
+    assert not any(k == conv[0] and abs(xy[1] - conv[1][1]) < 1
+                   for n, (k, xy) in where.items() if n != number["convergence"])
+
+
+def test_figure_rows_pair_consecutive_upright_figures():
+    """Two consecutive figures each at most 1.3 times as wide as tall share a row; a wide
+    one, or an upright one with no upright neighbour left, has a row of its own."""
+    assert figure_rows([0.87, 1.12, 0.84, 0.84, 1.19, 2.5]) == [[0, 1], [2, 3], [4], [5]]
+    assert figure_rows([2.5, 0.9, 0.9]) == [[0], [1, 2]]
+    assert figure_rows([0.9, 2.5, 0.9]) == [[0], [1], [2]]   # not across a wide figure
+    assert figure_rows([0.9, 0.9, 0.9]) == [[0, 1], [2]]
+    assert figure_rows([1.3, 1.3]) == [[0, 1]] and figure_rows([1.31, 1.0]) == [[0], [1]]
+    assert figure_rows([]) == []
+    assert figure_rows([1.5, 1.5], limit=2.0) == [[0, 1]]
+
+
+def test_the_demo_note_is_four_to_six_pages(tmp_path):
+    """The bundled demo as `shearcheck demo` runs it (three levels, six cuts): a note of
+    4 to 6 A4 pages, the hand calculation with one cut written out (the governing cut 4,
+    through the hole) and six rows in its table."""
+    res = fem.check(load_case(DEMO))
+    write_outputs(res, tmp_path)
+    n = len(_pdf_pages(tmp_path / "report.pdf"))
+    assert 4 <= n <= 6, n
+    sec = _hand_section(design_note(res, []))
+    assert [getattr(b, "style", "") for b in sec.items].count("formula") == 1
+    assert governing_cut(res.result.cuts) == 3
+    assert len(next(t for t in sec.items if isinstance(t, Table)).rows) == 6
 
 
 def test_provenance_and_no_machine_paths(run):

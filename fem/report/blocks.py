@@ -5,17 +5,23 @@ report, ...): a title, a title block, sections of `Block`, `Table` and `Figure` 
 `fem.report.html.render_html` and `fem.report.pdf.write_pdf` render the same `Note`, so
 both documents always carry the same content; neither knows what a check is.
 `fem.report.note` fills a `Note` from a finished check.
+
+`figure_rows` is the one layout decision both renderers share: in a `pair` section, two
+consecutive figures that are each not much wider than tall sit side by side in one row.
 """
 
 from __future__ import annotations
 
 import math
+import struct
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from fem.report.member_figures import number
 
-__all__ = ["Table", "Block", "Figure", "Section", "Note", "sci", "numeric_columns"]
+__all__ = ["Table", "Block", "Figure", "Section", "Note", "sci", "numeric_columns",
+           "png_size", "figure_rows", "SIDE_BY_SIDE"]
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
@@ -74,11 +80,47 @@ class Figure:
     path: Path
     caption: str
 
+    @property
+    def aspect(self) -> float:
+        """Width over height of the image."""
+        w, h = png_size(self.path)
+        return w / h
+
+
+def png_size(path: Path) -> tuple[int, int]:
+    """(width, height) in pixels of a PNG, read from its header (IHDR, the first chunk)."""
+    with open(path, "rb") as f:
+        head = f.read(24)
+    if head[:8] != b"\x89PNG\r\n\x1a\n" or head[12:16] != b"IHDR":
+        raise ValueError(f"{Path(path).name} is not a PNG file")
+    w, h = struct.unpack(">II", head[16:24])
+    return w, h
+
+
+SIDE_BY_SIDE = 1.3   # a figure at most this much wider than tall can go beside another
+
+
+def figure_rows(aspects: Sequence[float], limit: float = SIDE_BY_SIDE) -> list[list[int]]:
+    """Rows of figures from their width/height ratios, in order: two consecutive figures
+    that are each at most `limit` wide per unit height share a row (side by side, each at
+    half the width); any other figure has a row of its own (the full width). Taken
+    greedily from the first, so the note's figure order decides the pairs."""
+    rows: list[list[int]] = []
+    k = 0
+    while k < len(aspects):
+        if k + 1 < len(aspects) and aspects[k] <= limit and aspects[k + 1] <= limit:
+            rows.append([k, k + 1])
+            k += 2
+        else:
+            rows.append([k])
+            k += 1
+    return rows
+
 
 @dataclass
 class Section:
-    """A titled part; `new_page` starts it on a new page in print (PDF), `pair` sets its
-    figures two to a page."""
+    """A titled part; `new_page` starts it on a new page in print (PDF); in a `pair`
+    section consecutive figures go in rows (`figure_rows`), two rows to a printed page."""
 
     title: str
     items: list[Block | Table | Figure] = field(default_factory=list)

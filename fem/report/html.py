@@ -11,7 +11,7 @@ import base64
 import html
 from pathlib import Path
 
-from fem.report.blocks import Block, Figure, Note, Table, numeric_columns
+from fem.report.blocks import Block, Figure, Note, Table, figure_rows, numeric_columns
 
 __all__ = ["render_html", "title_block_html", "CSS"]
 
@@ -55,6 +55,8 @@ tr.mark td{background:#fbeaea}
 figure{margin:18px 0 30px}
 figure img{display:block;max-width:100%;height:auto;margin:0 auto;border:1px solid var(--rule)}
 figcaption{font-size:13px;color:var(--mute);margin-top:6px}
+.pair{display:grid;grid-template-columns:1fr 1fr;gap:24px;align-items:start}
+@media (max-width:700px){.pair{grid-template-columns:1fr}}
 table.tb{width:100%;min-width:0;margin:0 0 14px;font-size:13px}
 table.tb td{border:1px solid var(--rule);padding:4px 8px;width:25%}
 table.tb .k{display:block;font-size:10px;text-transform:uppercase;letter-spacing:.08em;
@@ -114,9 +116,11 @@ def _figure(f: Figure, number: int) -> str:
             f"<figcaption>Figure {number}. {e(f.caption)}</figcaption></figure>")
 
 
-def _items(items: list[Block | Table | Figure], count: list[int]) -> list[str]:
+def _items(items: list[Block | Table | Figure], count: list[int],
+           pair: bool = False) -> list[str]:
     out: list[str] = []
     bullets: list[str] = []
+    run: list[Figure] = []   # consecutive figures of a pair section
     for it in [*items, None]:
         if isinstance(it, Block) and it.style == "bullet":
             bullets.append(f"<li>{html.escape(it.text)}</li>")
@@ -124,6 +128,12 @@ def _items(items: list[Block | Table | Figure], count: list[int]) -> list[str]:
         if bullets:
             out.append("<ul>" + "".join(bullets) + "</ul>")
             bullets = []
+        if pair and isinstance(it, Figure):
+            run.append(it)
+            continue
+        if run:
+            out += _rows(run, count)
+            run = []
         if it is None:
             continue
         if isinstance(it, Figure):
@@ -131,6 +141,19 @@ def _items(items: list[Block | Table | Figure], count: list[int]) -> list[str]:
             out.append(_figure(it, count[0]))
         else:
             out.append(_table(it) if isinstance(it, Table) else _block(it))
+    return out
+
+
+def _rows(figs: list[Figure], count: list[int]) -> list[str]:
+    """Figures in the rows of `figure_rows`: two side by side in a two-column grid."""
+    out = []
+    for row in figure_rows([f.aspect for f in figs]):
+        cells = []
+        for k in row:
+            count[0] += 1
+            cells.append(_figure(figs[k], count[0]))
+        out.append(cells[0] if len(cells) == 1 else
+                   '<div class="pair">' + "".join(cells) + "</div>")
     return out
 
 
@@ -168,7 +191,7 @@ def render_html(note: Note) -> str:
     count = [0]
     for s in note.sections:
         body.append(f'<section id="{_anchor(s.title)}"><h2>{e(s.title)}</h2>')
-        body += _items(s.items, count)
+        body += _items(s.items, count, s.pair)
         body.append("</section>")
     body.append(f"<footer>{e(note.subtitle)}." + (f" {e(note.caution)}" if note.caution
                                                   else "") + "</footer>")

@@ -1,14 +1,17 @@
 """The design note of a check: one self-contained HTML file and a PDF, from the same content.
 
 `design_note(res, figures)` gathers what an engineer needs to follow and defend the check,
-in order: the verdict in plain words, the inputs, the hand calculation written out with
-the numbers substituted, the FE model and its equilibrium, FE against hand per cut, the
-convergence study, the figures, the assumptions and the caution. Every number comes from
-the result dataclasses (`fem.results`) or the hand side of the finest level
-(`fem.member.hand.CutHand`), so each can be traced by name. `fem.report.html` renders the note
-as one page with the figures as data URIs and the styles inline (no external file, link,
-script or font); `fem.report.pdf` draws the same text and tables with matplotlib, then one
-page per figure.
+in order: a first page that is the summary (the verdict in plain words, the findings in
+short, the comparison table and the key figure), then the findings in full, the inputs,
+the hand calculation (the governing cut written out with its numbers and units, every cut
+in one table), the FE model and its equilibrium, FE against hand per cut, the deflection,
+the convergence study, the other figures (in `FIGURE_ORDER`, so upright ones pair side by
+side), the assumptions with the caution, and the provenance and the case file as run in
+two appendices. Every number comes from the result dataclasses (`fem.results`) or, for
+the geometry of a cut, the hand side of the finest level (`fem.member.hand.CutHand`), so
+each can be traced by name. `fem.report.html` renders the note as one page with the
+figures as data URIs and the styles inline (no external file, link, script or font);
+`fem.report.pdf` typesets the same note on A4 pages with ReportLab.
 """
 
 from __future__ import annotations
@@ -33,7 +36,8 @@ from fem.report.section_note import (
 )
 from fem.results import CAUTION, atomic_write
 
-__all__ = ["design_note", "write_report", "title_block", "KEY_FIGURES", "PDF_MISSING"]
+__all__ = ["design_note", "write_report", "title_block", "governing_cut", "figure_order",
+           "KEY_FIGURES", "FIGURE_ORDER", "PDF_MISSING"]
 
 # ----------------------------------------------------------------------------- content
 
@@ -101,45 +105,107 @@ def _inputs(res: Any) -> Section:
     return s
 
 
+def governing_cut(cuts: list[Any]) -> int:
+    """Index of the cut the note writes out in full: the one with the largest FE/hand
+    ratio; where no cut has a ratio, the one with the largest hand shear stress, and
+    where no cut carries shear either (a bar in tension), the largest normal stress."""
+    rated = [k for k, c in enumerate(cuts) if c.ratio is not None]
+    if rated:
+        return max(rated, key=lambda k: cuts[k].ratio)
+    return max(range(len(cuts)), key=lambda k: (abs(cuts[k].tau_max_hand or 0.0),
+                                                abs(cuts[k].sigma_x_max_hand or 0.0)))
+
+
+def _why(cuts: list[Any]) -> str:
+    """Why `governing_cut` chose its cut, in the note's words."""
+    if any(c.ratio is not None for c in cuts):
+        return "governs: largest FE/hand ratio"
+    if any(c.tau_max_hand for c in cuts):
+        return "governs: largest hand shear stress"
+    return "no shear at any cut: largest normal stress"
+
+
+def _strip_ranges(sec: Any) -> str:
+    return ", ".join(f"{sci(y0)}–{sci(y1)}" for y0, y1, _ in sec.strips)
+
+
+def _worked_cut(k: int, c: Any, h: Any, r: Any, why: str, L: str, F: str, S: str) -> Block:
+    """Cut `k` (1-based) written out, every value with its unit, so the arithmetic reads
+    right whatever the force and stress units. Forces and stresses from the result
+    (`c`, a `CutResult`); only the geometry (Q, b, strips, c) from the hand side (`h`)."""
+    sec, yq = h.section, h.y_at_tau_max
+    Q, b, cfib = float(sec.first_moment(yq)), float(sec.width(yq)), sec.fibre_distance()
+    A2, A3, A4, FL = f"{L}²", f"{L}³", f"{L}⁴", f"{F}·{L}"
+    strips = " + ".join(f"{t:g} {L} × {sci(y1 - y0)} {L}" for y0, y1, t in sec.strips)
+    N = abs(c.N_hand) > 0
+    lines = [
+        f"Cut {k} ({why}), x = {c.x:g} {L}: material from y = "
+        + ", ".join(f"{sci(y0)} to {sci(y1)}" for y0, y1, _ in sec.strips) + f" {L}",
+        f"  A = Σ t·h = {strips} = {sci(c.A)} {A2}",
+        f"  ȳ = {sci(c.centroid_y)} {L};   I = Σ t[(y₁−ȳ)³ − (y₀−ȳ)³]/3 = {sci(c.I)} {A4}",
+        f"  V = {sci(c.V_hand)} {F};   M = {sci(c.M_hand)} {FL}"
+        + (f";   N = {sci(c.N_hand)} {F}" if N else ""),
+        f"  at y = {sci(yq)} {L}:  Q = {sci(Q)} {A3},  b = {sci(b)} {L}",
+        f"  τ = VQ/(Ib) = {sci(abs(c.V_hand))} {F} × {sci(Q)} {A3} / ({sci(c.I)} {A4} × "
+        f"{sci(b)} {L}) = {sci(c.tau_formula_hand)} {S}",
+        f"  V/A = {sci(abs(c.V_hand))} {F} / {sci(c.A)} {A2} = {sci(c.tau_avg_hand)} {S}",
+        ("  σ = |N|/A + |M|c/I = " f"{sci(abs(c.N_hand))} {F} / {sci(c.A)} {A2} + "
+         if N else "  σ = |M|c/I = ")
+        + f"{sci(abs(c.M_hand))} {FL} × {sci(cfib)} {L} / {sci(c.I)} {A4} = "
+        + f"{sci(c.sigma_x_max_hand)} {S}   (c = {sci(cfib)} {L}, extreme fibre from ȳ)",
+    ]
+    if r.hand_method != "shear-formula":
+        lines.append(f"  hand value of the {r.hand_method} method: {sci(c.tau_max_hand)} {S}")
+    return Block("\n".join(lines), "formula")
+
+
+def _cut_table(r: Any, hands: list[Any], worked: int, L: str, F: str, S: str) -> Table:
+    """Every cut's hand calculation in one row: section, forces, the shear formula at its
+    worst level, V/A and the bending stress, each column with its unit; the row of the
+    cut written out (index `worked`) highlighted."""
+    N = any(abs(c.N_hand) > 0 for c in r.cuts)
+    method = r.hand_method != "shear-formula"
+    head = ["cut", f"x [{L}]", f"material y [{L}]", f"A [{L}²]", f"ȳ [{L}]", f"I [{L}⁴]",
+            f"V [{F}]", f"M [{F}·{L}]", *([f"N [{F}]"] if N else []), f"y at τmax [{L}]",
+            f"Q [{L}³]", f"b [{L}]", f"τ = VQ/(Ib) [{S}]", f"V/A [{S}]",
+            f"σ = |N|/A + |M|c/I [{S}]" if N else f"σ = |M|c/I [{S}]",
+            *([f"hand value, {r.hand_method} [{S}]"] if method else [])]
+    rows = []
+    for k, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
+        sec, yq = h.section, h.y_at_tau_max
+        rows.append([str(k), f"{c.x:g}", _strip_ranges(sec), sci(c.A), sci(c.centroid_y),
+                     sci(c.I), sci(c.V_hand), sci(c.M_hand),
+                     *([sci(c.N_hand)] if N else []), sci(yq),
+                     sci(float(sec.first_moment(yq))), sci(float(sec.width(yq))),
+                     sci(c.tau_formula_hand), sci(c.tau_avg_hand), sci(c.sigma_x_max_hand),
+                     *([sci(c.tau_max_hand)] if method else [])])
+    return Table(head, rows, f"Hand calculation at every cut, the same steps as cut "
+                 f"{worked + 1} above (highlighted)", marked={worked})
+
+
 def _hand(res: Any) -> Section:
+    """The method in words, the governing cut written out with its numbers, then every
+    cut in one table."""
     (L, F, S), r = _units(res), res.result
     if res.case.kind != "beam":
         return section_hand(res)
     s = Section("Hand calculation")
-    s.items.append(Block(
-        "At each cut x the section is the stack of material strips met by the vertical line "
-        "(width b = plate thickness t). V and M come from statics of the member as a beam on "
-        "the idealised supports; M is taken about the centroid of the cut. The shear formula "
-        "τ = VQ/(Ib) is evaluated over the depth and its largest value is shown; Q is the "
-        "first moment of the area above that level about the centroid."))
+    words = ("At each cut x the section is the stack of material strips met by the vertical "
+             "line (width b = plate thickness t). V and M come from statics of the member as a "
+             "beam on the idealised supports; M is taken about the centroid of the cut. The "
+             "shear formula τ = VQ/(Ib) is evaluated over the depth and its largest value is "
+             "shown; Q is the first moment of the area above that level about the centroid.")
     hands = res.run.finest.cuts_hand if res.run is not None else []
-    A2, A3, A4 = f"{L}²", f"{L}³", f"{L}⁴"
-    for i, (c, h) in enumerate(zip(r.cuts, hands, strict=True), start=1):
-        sec = h.section
-        yq = h.y_at_tau_max
-        Q = float(sec.first_moment(yq))
-        b = float(sec.width(yq))
-        cfib = sec.fibre_distance()
-        strips = " + ".join(f"{t:g}×{sci(y1 - y0)}" for y0, y1, t in sec.strips)
-        lines = [
-            f"Cut {i}, x = {c.x:g} {L}: material from y = "
-            + ", ".join(f"{sci(y0)} to {sci(y1)}" for y0, y1, _ in sec.strips) + f" {L}",
-            f"  A = Σ t·h = {strips} = {sci(c.A)} {A2}",
-            f"  ȳ = {sci(c.centroid_y)} {L};   I = Σ t[(y₁−ȳ)³ − (y₀−ȳ)³]/3 = {sci(c.I)} {A4}",
-            f"  V = {sci(c.V_hand)} {F};   M = {sci(c.M_hand)} {F}·{L}"
-            + (f";   N = {sci(c.N_hand)} {F}" if abs(c.N_hand) > 0 else ""),
-            f"  at y = {sci(yq)} {L}:  Q = {sci(Q)} {A3},  b = {sci(b)} {L}",
-            f"  τ = VQ/(Ib) = {sci(abs(c.V_hand))} × {sci(Q)} / ({sci(c.I)} × {sci(b)}) "
-            f"= {sci(c.tau_formula_hand)} {S}",
-            f"  V/A = {sci(abs(c.V_hand))} / {sci(c.A)} = {sci(c.tau_avg_hand)} {S}",
-            (f"  σ = |N|/A + |M|c/I = {sci(abs(c.N_hand))}/{sci(c.A)} + "
-             if abs(c.N_hand) > 0 else "  σ = |M|c/I = ")
-            + f"{sci(abs(c.M_hand))} × {sci(cfib)} / {sci(c.I)} = {sci(c.sigma_x_max_hand)} {S}"
-            + f"   (c = {sci(cfib)} {L})",
-        ]
-        if r.hand_method != "shear-formula":
-            lines.append(f"  hand value of the {r.hand_method} method: {sci(c.tau_max_hand)} {S}")
-        s.items.append(Block("\n".join(lines), "formula"))
+    if not r.cuts or len(hands) != len(r.cuts):
+        s.items.append(Block(words))
+        return s
+    k, why = governing_cut(r.cuts), _why(r.cuts)
+    if len(r.cuts) > 1:
+        words += (f" Cut {k + 1} ({why}) is written out; the other cuts follow the same "
+                  "steps, tabulated below.")
+    s.items.append(Block(words))
+    s.items.append(_worked_cut(k + 1, r.cuts[k], hands[k], r, why, L, F, S))
+    s.items.append(_cut_table(r, hands, k, L, F, S))
     return s
 
 
@@ -428,6 +494,20 @@ def _caption(res: Any, p: Path) -> str:
 
 KEY_FIGURES = ("ratio-along-member", "section-shear", "shear-contour")
 
+# the figures after the summary, in an order that pairs the upright ones side by side:
+# model beside mesh, the two contour plots, the section's own figures, then the wide ones
+FIGURE_ORDER = ("model", "mesh", "shear-contour", "von-mises-contour", "section-shear",
+                "section-flow", "neutral-axis-profile", "wall-flow", "profiles", "planes",
+                "convergence")
+
+
+def figure_order(figs: list[Figure]) -> list[Figure]:
+    """`figs` in `FIGURE_ORDER`; a figure not named there goes before the convergence
+    figure, in the order given."""
+    last = FIGURE_ORDER.index("convergence")
+    return sorted(figs, key=lambda f: FIGURE_ORDER.index(f.path.stem)
+                  if f.path.stem in FIGURE_ORDER else last - 0.5)
+
 
 def _key_figure(figs: list[Figure]) -> Figure | None:
     """The summary's figure: the ratio along the member (beams), the section's |τ|."""
@@ -453,12 +533,12 @@ def _appendix(res: Any) -> list[Section]:
         pairs = [("shearcheck", prov.get("shearcheck")), ("Python", prov.get("python"))]
         pairs += list((prov.get("packages") or {}).items())
         pairs += [("run (UTC)", prov.get("run_utc")), ("platform", prov.get("platform"))]
-        half = -(-len(pairs) // 2)
-        left, right = pairs[:half], pairs[half:] + [("", "")] * (2 * half - len(pairs))
-        rows = [[a, str(va), b, str(vb)] for (a, va), (b, vb) in zip(left, right, strict=True)]
+        per_row = 3   # (software, version) pairs side by side, read down each pair
+        n = -(-len(pairs) // per_row)
+        pairs += [("", "")] * (n * per_row - len(pairs))
+        rows = [[str(v) for j in range(per_row) for v in pairs[j * n + i]] for i in range(n)]
         out.append(Section("Appendix A: provenance", [
-            Table(["software", "version", "software", "version"], rows,
-                  "What produced this note"),
+            Table(["software", "version"] * per_row, rows, "What produced this note"),
             Block(f"Case file {prov.get('case_file')}, SHA-256 {prov.get('case_sha256')}; "
                   f"run {prov.get('run_utc')}. Running the case file of Appendix B with these "
                   "versions reproduces this note.", "small")]))
@@ -473,8 +553,9 @@ def design_note(res: Any, figures: list[Path]) -> Note:
 
     First page (the summary): the verdict, the findings, the key figure and the comparison
     table; then the findings in full, the inputs, the hand calculation, the FE model, the
-    rest of the comparison, the deflection, the convergence study, the assumptions, the
-    other figures two to a page, and the provenance and case file in the appendices.
+    rest of the comparison, the deflection, the convergence study, the other figures (a
+    `pair` section: upright ones side by side), the assumptions, and the provenance and
+    case file in the appendices.
     """
     r, c = res.result, res.case
     paths = [Path(p) for p in figures if Path(p).suffix == ".png"]
@@ -500,10 +581,10 @@ def design_note(res: Any, figures: list[Path]) -> Note:
     if defl is not None:
         sections.append(defl)
     sections.append(_convergence(res))
-    sections.append(_assumptions(res))
-    others = [f for f in figs if f is not key]
+    others = figure_order([f for f in figs if f is not key])
     if others:
         sections.append(Section("Figures", list(others), pair=True))
+    sections.append(_assumptions(res))   # with the caution, closing the note's body
     sections += _appendix(res)
     prov = r.provenance or {}
     version = prov.get("shearcheck")

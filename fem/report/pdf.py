@@ -1,11 +1,16 @@
 """A document (`fem.report.blocks.Note`) as PDF, typeset with ReportLab's page layout engine.
 
 ReportLab (platypus) flows the note's paragraphs, tables and figures over A4 pages: tables
-split across pages with their header row repeated, a heading stays with what follows, a
-figure stays with its caption, and figures of a `pair` section are sized to go two to a
-page. Every page carries the title block in its header and the caution and "page N of M"
-in its footer. The fonts are the DejaVu faces that matplotlib ships (Greek letters,
-sub- and superscripts, the true minus), embedded as subsets.
+split across pages with their header row repeated, a heading stays with the first item
+under it, a short section (at most `SHORT` of a page) is never split, and a figure stays
+with its caption. In a `pair` section the figures go in the rows `figure_rows` decides:
+two upright figures side by side at half the width, a wide one across the full width,
+each row at most half a page high, so a page holds two rows; a row short of room shrinks
+a little to fit the page before it moves on. White borders a figure's canvas leaves
+around its drawing are trimmed (`TRIM`) so it fills its width. Every page carries the
+title block in its header and the caution and "page N of M" in its footer. The fonts
+are the DejaVu faces that matplotlib ships (Greek letters, sub- and superscripts, the
+true minus), embedded as subsets.
 
 `write_pdf(note, path)` is the entry point; `fem.report.note.write_report` skips the PDF
 with a stated reason where ReportLab cannot be imported.
@@ -19,6 +24,7 @@ from pathlib import Path
 from typing import Any
 from xml.sax.saxutils import escape
 
+from PIL import Image  # Pillow: ReportLab's own image library
 from reportlab.lib import colors
 from reportlab.lib.enums import TA_LEFT, TA_RIGHT
 from reportlab.lib.pagesizes import A4
@@ -45,7 +51,15 @@ from reportlab.platypus import (
 from reportlab.platypus import Table as RLTable
 from reportlab.platypus.flowables import BalancedColumns
 
-from fem.report.blocks import Block, Figure, Note, Section, Table, numeric_columns
+from fem.report.blocks import (
+    Block,
+    Figure,
+    Note,
+    Section,
+    Table,
+    figure_rows,
+    numeric_columns,
+)
 from fem.results import atomic_write
 
 __all__ = ["write_pdf", "MARGIN", "HEADER", "FOOTER"]
@@ -98,8 +112,8 @@ def _styles() -> dict[str, ParagraphStyle]:
         "title": ParagraphStyle("title", base, fontName=f["bold"], fontSize=15, leading=18,
                                 spaceAfter=2),
         "sub": ParagraphStyle("sub", base, textColor=MUTE, spaceAfter=5),
-        "h2": ParagraphStyle("h2", base, fontName=f["bold"], fontSize=11, leading=14,
-                             spaceBefore=9, spaceAfter=2, keepWithNext=1),
+        "h2": ParagraphStyle("h2", base, fontName=f["bold"], fontSize=10.5, leading=13,
+                             spaceBefore=7, spaceAfter=1, keepWithNext=1),
         "small": ParagraphStyle("small", base, fontSize=7, leading=9, textColor=MUTE),
         "caption": ParagraphStyle("caption", base, fontSize=7.5, leading=9.5, textColor=MUTE,
                                   spaceBefore=2, spaceAfter=8),
@@ -191,7 +205,7 @@ def _table(t: Table, width: float) -> list[Flowable]:
     out: list[Flowable] = []
     if t.caption:
         out.append(_p(t.caption, "tcaption"))
-    out += [tbl, Spacer(1, 6)]
+    out += [tbl, Spacer(1, 5)]
     return out
 
 
@@ -211,7 +225,7 @@ def _block(b: Block, width: float) -> list[Flowable]:
         head, _, rest = b.text.partition("\n")
         return [_pre(head, "mono-head", width), _pre(rest, "mono", width)]
     if b.style == "code":  # verbatim text in balanced columns
-        n = 3   # long lines wrap within their column (Preformatted's maxLineLength)
+        n = 4   # long lines wrap within their column (Preformatted's maxLineLength)
         col = width / n - 8
         return [BalancedColumns([_pre(b.text, "code", col)], nCols=n, spaceBefore=2,
                                 innerPadding=8)]
@@ -228,6 +242,35 @@ def _block(b: Block, width: float) -> list[Flowable]:
     return [_p(b.text, "small" if b.style == "small" else "body")]
 
 
+TRIM = 0.9   # a figure whose drawing spans less of its canvas's width or height is trimmed
+
+
+def _trimmed(path: Path) -> ImageReader:
+    """The figure's image; where the drawing leaves a white border wider than `TRIM`
+    says (an equal-aspect plot on a fixed canvas), without it but for a small margin,
+    so the figure fills the width it is given. Others are embedded whole."""
+    im = Image.open(path)
+    if im.mode != "RGB":
+        im = im.convert("RGBA")
+        alpha = im.getchannel("A")
+        if alpha.getextrema()[0] < 255:   # see-through parts: on white paper
+            flat = Image.new("RGB", im.size, (255, 255, 255))
+            flat.paste(im, mask=alpha)
+            im = flat
+        else:
+            im = im.convert("RGB")
+    k = 4   # the border found on a quarter-size copy, to a few pixels
+    ink = im.reduce(k).convert("L").point(lambda v: 255 if v < 245 else 0).getbbox()
+    box = None if ink is None else (k * ink[0], k * ink[1], min(im.width, k * ink[2]),
+                                    min(im.height, k * ink[3]))
+    if box is None or (box[2] - box[0] > TRIM * im.width and box[3] - box[1] > TRIM * im.height):
+        return ImageReader(im)   # the decoded image: ReportLab need not decode it again
+    pad = max(4, round(0.012 * max(im.size)))
+    x0, y0, x1, y1 = box
+    return ImageReader(im.crop((max(0, x0 - pad), max(0, y0 - pad), min(im.width, x1 + pad),
+                                min(im.height, y1 + pad))))
+
+
 class _FigureBlock(Flowable):
     """A figure and its caption as one piece: the image as large as `max_h` allows, shrunk
     to the room left on the page down to `min_h`; below that it goes whole to the next page
@@ -237,8 +280,8 @@ class _FigureBlock(Flowable):
 
     def __init__(self, path: Path, caption: Paragraph, max_h: float, min_h: float) -> None:
         super().__init__()
-        self.path = str(path)
-        self.iw, self.ih = ImageReader(self.path).getSize()
+        self.image = _trimmed(path)
+        self.iw, self.ih = self.image.getSize()
         self.caption, self.max_h, self.min_h = caption, max_h, min_h
         self.w = self.h = self.cap_h = 0.0
 
@@ -263,12 +306,71 @@ class _FigureBlock(Flowable):
     def draw(self) -> None:
         total = self.h + self.GAP + self.cap_h + self.caption.style.spaceAfter
         x = 0.5 * (self.avail_w - self.w)
-        self.canv.drawImage(self.path, x, total - self.h, self.w, self.h)
+        self.canv.drawImage(self.image, x, total - self.h, self.w, self.h)
         self.caption.drawOn(self.canv, 0, self.caption.style.spaceAfter)
 
 
 def _figure(f: Figure, number: int, width: float, max_h: float, min_h: float) -> Flowable:
     return _FigureBlock(f.path, _p(f"Figure {number}. {f.caption}", "caption"), max_h, min_h)
+
+
+class _FigureRow(Flowable):
+    """One row of a `pair` section: one figure at the full width, or two side by side at
+    half the width each, every image with its own caption under it (the captions start at
+    one level, under the taller image). The row is at most `max_h` high, so two rows fill
+    a page; short of room it shrinks to `min_scale` of that size, below that it goes whole
+    to the next page."""
+
+    GAP = 3.0        # image to caption
+    GUTTER = 5 * mm  # between the two figures of a row
+
+    def __init__(self, figs: list[tuple[Path, Paragraph]], max_h: float,
+                 min_scale: float = 0.7) -> None:
+        super().__init__()
+        self.figs = [(img, cap, *img.getSize()) for img, cap in
+                     ((_trimmed(p), cap) for p, cap in figs)]
+        self.max_h, self.min_scale = max_h, min_scale
+        self.sizes: list[tuple[float, float]] = []
+        self.col_w = self.cap_h = 0.0
+        self.avail_w = 0.0
+
+    def _extra(self) -> float:
+        return self.GAP + self.cap_h + self.figs[0][1].style.spaceAfter
+
+    def _layout(self, avail_w: float, img_h: float) -> float:
+        n = len(self.figs)
+        self.col_w = (avail_w - self.GUTTER * (n - 1)) / n
+        self.cap_h = max(cap.wrap(self.col_w, 1e6)[1] for _, cap, _, _ in self.figs)
+        self.sizes = []
+        for _, _, iw, ih in self.figs:
+            scale = min(self.col_w / iw, img_h / ih)
+            self.sizes.append((iw * scale, ih * scale))
+        return max(h for _, h in self.sizes) + self._extra()
+
+    def wrap(self, avail_w: float, avail_h: float) -> tuple[float, float]:
+        self.avail_w = avail_w
+        self._layout(avail_w, 1e6)
+        need = self._layout(avail_w, self.max_h - self._extra())
+        if need > avail_h:
+            tallest = max(h for _, h in self.sizes)
+            room = avail_h - self._extra()
+            if room >= self.min_scale * tallest:
+                need = self._layout(avail_w, room)
+        return avail_w, need
+
+    def split(self, avail_w: float, avail_h: float) -> list[Flowable]:
+        return []   # whole on the next page
+
+    def draw(self) -> None:
+        tallest = max(h for _, h in self.sizes)
+        total = tallest + self._extra()
+        for k, ((img, cap, _, _), (w, h)) in enumerate(zip(self.figs, self.sizes,
+                                                          strict=True)):
+            x0 = k * (self.col_w + self.GUTTER)
+            width = self.col_w if len(self.figs) > 1 else self.avail_w
+            self.canv.drawImage(img, x0 + 0.5 * (width - w), total - tallest, w, h)
+            cap.wrap(width, 1e6)
+            cap.drawOn(self.canv, x0, total - tallest - self.GAP - cap.height)
 
 
 # ------------------------------------------------------------------------------- pages
@@ -281,6 +383,7 @@ class _Layout:
         self.page_w, self.page_h = A4
         self.width = self.page_w - 2 * MARGIN
         self.height = self.page_h - HEADER - FOOTER - 6 * mm
+        self.frame_h = self.page_h - HEADER - FOOTER - 4 * mm   # the body frame's height
 
     def header(self, c: rl_canvas.Canvas) -> None:
         f, note = _fonts(), self.note
@@ -369,6 +472,44 @@ def _canvas_class(layout: _Layout, count: list[int]) -> type:
     return _Numbered
 
 
+SHORT = 0.2   # a section at most this part of a page high is never split over two pages
+
+
+class _Together(KeepTogether):
+    """ReportLab's KeepTogether (a heading with what follows it), measured as placed:
+    each item gets the height left under those above it, so a figure row that would
+    shrink to fit the rest of the page is measured shrunk, not at its full size. (Our
+    documents generate no content while wrapping, so the frame copy ReportLab's own
+    measure makes for that is not needed.)"""
+
+    def wrap(self, avail_w: float, avail_h: float) -> tuple[float, float]:
+        used = first = 0.0
+        for k, f in enumerate(self._content):
+            if k:
+                used += f.getSpaceBefore()
+            h = f.wrapOn(self.canv, avail_w, max(avail_h - used, 0.0))[1]
+            first = first if k else h
+            used += h + f.getSpaceAfter()
+        self._H, self._H0, self._wrapInfo = used, first, (avail_w, avail_h)
+        return avail_w, 0xffffff   # as KeepTogether: always asked to split
+
+
+class _KeepShort(_Together):
+    """Its flowables kept on one page when together they are at most `limit` high (they
+    move to the next page whole); a taller group flows and splits as if loose."""
+
+    def __init__(self, flowables: list[Flowable], limit: float) -> None:
+        super().__init__(flowables)
+        self._limit = limit
+
+    def split(self, avail_w: float, avail_h: float) -> list[Flowable]:
+        if getattr(self, "_wrapInfo", None) != (avail_w, avail_h):
+            self.wrap(avail_w, avail_h)
+        if self._H > self._limit:   # loose; led by a no-op so that ReportLab still keeps
+            return [self.NullActionFlowable(), *self._content]   # the heading with the next
+        return super().split(avail_w, avail_h)
+
+
 def _story(note: Note, lay: _Layout) -> list[Flowable]:
     st = _styles()
     story: list[Flowable] = [_p(note.kicker.upper(), "kicker"), _p(note.title, "title"),
@@ -376,34 +517,52 @@ def _story(note: Note, lay: _Layout) -> list[Flowable]:
     if note.remarks:
         story.append(_p(note.remarks, "body"))
     number = 0
-    pair_h = 0.5 * (lay.height - 2 * 30)  # two figures and their captions on one page
     for k, s in enumerate(note.sections):
         if s.new_page and k > 0:
             story.append(PageBreak())
         elif k > 0:
-            story.append(CondPageBreak(40 * mm))
-        story += [Paragraph(escape(s.title), st["h2"]),
-                  HRFlowable(width="100%", thickness=0.6, color=MUTE, spaceAfter=5)]
-        story += _items(s, lay, pair_h, number)
+            story.append(CondPageBreak(15 * mm))
+        rule = HRFlowable(width="100%", thickness=0.6, color=MUTE, spaceAfter=4)
+        rule.keepWithNext = 1   # the heading stays with the first item under it
+        part = [Paragraph(escape(s.title), st["h2"]), rule, *_items(s, lay, number)]
+        story.append(_KeepShort(part, SHORT * lay.frame_h))
         number += sum(isinstance(it, Figure) for it in s.items)
     return story
 
 
-def _items(s: Section, lay: _Layout, pair_h: float, first: int) -> list[Flowable]:
+def _items(s: Section, lay: _Layout, first: int) -> list[Flowable]:
     out: list[Flowable] = []
     number = first
-    for it in s.items:
+    items: list[Block | Table | Figure | None] = [*s.items, None]
+    run: list[Figure] = []  # consecutive figures of a pair section, set out in rows
+    for it in items:
+        if s.pair and isinstance(it, Figure):
+            run.append(it)
+            continue
+        if run:
+            out += _rows(run, number, lay)
+            number += len(run)
+            run = []
+        if it is None:
+            continue
         if isinstance(it, Figure):
             number += 1
-            if s.pair:
-                out.append(_figure(it, number, lay.width, pair_h, pair_h))
-            else:
-                out.append(_figure(it, number, lay.width, 0.38 * lay.height,
-                                   0.22 * lay.height))
+            out.append(_figure(it, number, lay.width, 0.38 * lay.height, 0.22 * lay.height))
         elif isinstance(it, Table):
             out += _table(it, lay.width)
         else:
             out += _block(it, lay.width)
+    return out
+
+
+def _rows(figs: list[Figure], first: int, lay: _Layout) -> list[Flowable]:
+    """Consecutive figures of a `pair` section in rows of `figure_rows`, two rows a page."""
+    row_h = 0.5 * lay.frame_h - 1.0
+    out: list[Flowable] = []
+    for row in figure_rows([f.aspect for f in figs]):
+        out.append(_FigureRow([(figs[k].path,
+                                _p(f"Figure {first + k + 1}. {figs[k].caption}", "caption"))
+                               for k in row], row_h))
     return out
 
 
@@ -420,8 +579,9 @@ def write_pdf(note: Note, path: Path) -> int:
                           topMargin=HEADER, bottomMargin=FOOTER + 4 * mm,
                           title=note.title, subject=note.caution, creator="shearcheck",
                           author="", producer="shearcheck (ReportLab)")
-    frame = Frame(MARGIN, FOOTER + 4 * mm, lay.width, lay.page_h - HEADER - FOOTER - 4 * mm,
+    frame = Frame(MARGIN, FOOTER + 4 * mm, lay.width, lay.frame_h,
                   leftPadding=0, rightPadding=0, topPadding=0, bottomPadding=0, id="body")
+    doc.keepTogetherClass = _Together   # what a heading's keepWithNext makes
     doc.addPageTemplates([PageTemplate(id="page", frames=[frame],
                                        onPage=lambda c, _d: lay.header(c))])
     count = [0]
