@@ -117,7 +117,7 @@ def _outline(ax, poly: Polygon) -> None:
 def _figure(bounds: tuple[float, float, float, float]):
     x0, y0, x1, y1 = bounds
     w, h = max(x1 - x0, 1e-300), max(y1 - y0, 1e-300)
-    fw = 9.0
+    fw = 9.0 if w > 1.3 * h else 6.5   # an upright model prints at half width in the note
     fh = min(max(fw * h / w + 1.2, 3.2), 8.0)
     fig, ax = plt.subplots(figsize=(fw, fh), dpi=DPI)
     ax.set_aspect("equal")
@@ -169,6 +169,7 @@ def _member(case: Case, folder: Path, mm: Any = None) -> Preview:
 
     t0 = time.perf_counter()
     g, u = case.beam, case.units
+    state = "not solved" if mm is None else "as solved"
     mm = mesh_member(case) if mm is None else mm
     t1 = time.perf_counter()
     elements, nodes, dofs = _counts_member(mm, case.mesh.order)
@@ -217,7 +218,7 @@ def _member(case: Case, folder: Path, mm: Any = None) -> Preview:
     size = mm.size
     est = estimate_dofs(case, size)
     title = _mesh_line("beam", size, case.mesh.order, elements, dofs, est, u.length)
-    ax.set_title(f"{case.name}: the model, not solved\n{title}", fontsize=9)
+    ax.set_title(f"{case.name}: the model, {state}\n{title}", fontsize=9)
     ax.set_xlabel(f"x [{u.length}]", fontsize=8)
     ax.set_ylabel(f"y [{u.length}]", fontsize=8)
     path = folder / FIGURE_NAME
@@ -286,6 +287,14 @@ def _outside(p, dom: Polygon, span: float) -> tuple[float, float]:
     return (float(q[0]), float(q[1]))
 
 
+def _away(at: tuple[float, float], base: Any, span: float) -> tuple[str, str]:
+    """The alignment of a label at `at` that keeps it clear of the boundary at `base`."""
+    dx, dy = at[0] - base[0], at[1] - base[1]
+    tiny = 1e-6 * span
+    return ("right" if dx < -tiny else "left" if dx > tiny else "center",
+            "top" if dy < -tiny else "bottom" if dy > tiny else "center")
+
+
 def _member_patches(ax, case: Case, mm, span: float, dom: Polygon) -> None:
     g = case.beam
     for s, p in zip(case.supports, mm.supports, strict=True):
@@ -295,8 +304,13 @@ def _member_patches(ax, case: Case, mm, span: float, dom: Polygon) -> None:
             ax.plot([a[0], b[0]], [a[1], b[1]], color=SUPPORT, lw=5, alpha=0.85,
                     solid_capstyle="butt", zorder=6, clip_on=False)
         c = _outside(p, dom, 1.5 * span)
+        ha, va = _away(c, p.centroid, span) if p.point is None else ("center", "center")
+        if p.point is None and va == "center":   # beside an upright edge: up along it
+            ha, va, turn = "center", "bottom" if ha == "right" else "top", 90
+        else:
+            turn = 0
         ax.text(c[0], c[1], f"{p.name} (fixes {s.fix})", color=SUPPORT, fontsize=7, zorder=8,
-                ha="center", va="center")
+                ha=ha, va=va, rotation=turn, rotation_mode="anchor")
     for ld, p in zip(case.loads, mm.loads, strict=True):
         F = np.asarray(ld.force, float)
         head = g.holes[p.hole].center if p.hole is not None else _outside(p, dom, span)
@@ -325,6 +339,7 @@ def _section(case: Case, folder: Path, sm: Any = None) -> Preview:
 
     t0 = time.perf_counter()
     g, u = case.section, case.units
+    state = "not solved" if sm is None else "as solved"
     if sm is None:
         sm = mesh_section(section_shape(g.shape, **g.params), case.mesh.size, case.mesh.order)
     geom = sm.geometry
@@ -357,7 +372,7 @@ def _section(case: Case, folder: Path, sm: Any = None) -> Preview:
     ax.plot(hp.cx, hp.cy, marker="+", color=INK, ms=9, zorder=9)
     est = estimate_dofs(case, sm.size)
     title = _mesh_line("section", sm.size, case.mesh.order, elements, dofs, est, u.length)
-    ax.set_title(f"{case.name}: the section, not solved\n{title}", fontsize=9)
+    ax.set_title(f"{case.name}: the section, {state}\n{title}", fontsize=9)
     ax.set_xlabel(f"x [{u.length}]", fontsize=8)
     ax.set_ylabel(f"y [{u.length}]", fontsize=8)
     path = folder / FIGURE_NAME
