@@ -21,7 +21,7 @@ from pathlib import Path
 from fem.report.member_figures import number
 
 __all__ = ["Table", "Block", "Figure", "Section", "Note", "sci", "numeric_columns",
-           "png_size", "figure_rows", "SIDE_BY_SIDE"]
+           "png_size", "figure_rows", "figure_runs", "SIDE_BY_SIDE"]
 
 _SUP = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
@@ -115,6 +115,21 @@ def figure_rows(aspects: Sequence[float], limit: float = SIDE_BY_SIDE) -> list[l
             rows.append([k])
             k += 1
     return rows
+
+
+def figure_runs(items: Sequence[Block | Table | Figure],
+                pair: bool) -> list[Block | Table | Figure | list[Figure]]:
+    """The items of a section as the renderers take them: in a `pair` section each run of
+    consecutive figures gathered in one list (to be set out in `figure_rows`)."""
+    out: list[Block | Table | Figure | list[Figure]] = []
+    for it in items:
+        if not (pair and isinstance(it, Figure)):
+            out.append(it)
+        elif out and isinstance(out[-1], list):
+            out[-1].append(it)
+        else:
+            out.append([it])
+    return out
 
 
 @dataclass

@@ -11,7 +11,15 @@ import base64
 import html
 from pathlib import Path
 
-from fem.report.blocks import Block, Figure, Note, Table, figure_rows, numeric_columns
+from fem.report.blocks import (
+    Block,
+    Figure,
+    Note,
+    Table,
+    figure_rows,
+    figure_runs,
+    numeric_columns,
+)
 
 __all__ = ["render_html", "title_block_html", "CSS"]
 
@@ -120,23 +128,18 @@ def _items(items: list[Block | Table | Figure], count: list[int],
            pair: bool = False) -> list[str]:
     out: list[str] = []
     bullets: list[str] = []
-    run: list[Figure] = []   # consecutive figures of a pair section
-    for it in [*items, None]:
+    for it in [*figure_runs(items, pair), None]:
         if isinstance(it, Block) and it.style == "bullet":
             bullets.append(f"<li>{html.escape(it.text)}</li>")
             continue
         if bullets:
             out.append("<ul>" + "".join(bullets) + "</ul>")
             bullets = []
-        if pair and isinstance(it, Figure):
-            run.append(it)
-            continue
-        if run:
-            out += _rows(run, count)
-            run = []
         if it is None:
             continue
-        if isinstance(it, Figure):
+        if isinstance(it, list):   # consecutive figures of a pair section
+            out += _rows(it, count)
+        elif isinstance(it, Figure):
             count[0] += 1
             out.append(_figure(it, count[0]))
         else:

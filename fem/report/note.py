@@ -105,24 +105,23 @@ def _inputs(res: Any) -> Section:
     return s
 
 
-def governing_cut(cuts: list[Any]) -> int:
-    """Index of the cut the note writes out in full: the one with the largest FE/hand
-    ratio; where no cut has a ratio, the one with the largest hand shear stress, and
-    where no cut carries shear either (a bar in tension), the largest normal stress."""
+def _governing(cuts: list[Any]) -> tuple[int, str]:
+    """The cut the note writes out in full and why, in the note's words: the one with the
+    largest FE/hand ratio; where no cut has a ratio, the one with the largest hand shear
+    stress, and where no cut carries shear either (a bar in tension), the largest normal
+    stress."""
     rated = [k for k, c in enumerate(cuts) if c.ratio is not None]
     if rated:
-        return max(rated, key=lambda k: cuts[k].ratio)
-    return max(range(len(cuts)), key=lambda k: (abs(cuts[k].tau_max_hand or 0.0),
-                                                abs(cuts[k].sigma_x_max_hand or 0.0)))
+        return max(rated, key=lambda k: cuts[k].ratio), "governs: largest FE/hand ratio"
+    k = max(range(len(cuts)), key=lambda k: (abs(cuts[k].tau_max_hand or 0.0),
+                                             abs(cuts[k].sigma_x_max_hand or 0.0)))
+    return k, ("governs: largest hand shear stress" if cuts[k].tau_max_hand
+               else "no shear at any cut: largest normal stress")
 
 
-def _why(cuts: list[Any]) -> str:
-    """Why `governing_cut` chose its cut, in the note's words."""
-    if any(c.ratio is not None for c in cuts):
-        return "governs: largest FE/hand ratio"
-    if any(c.tau_max_hand for c in cuts):
-        return "governs: largest hand shear stress"
-    return "no shear at any cut: largest normal stress"
+def governing_cut(cuts: list[Any]) -> int:
+    """Index of the cut the note writes out in full (`_governing`)."""
+    return _governing(cuts)[0]
 
 
 def _strip_ranges(sec: Any) -> str:
@@ -199,7 +198,7 @@ def _hand(res: Any) -> Section:
     if not r.cuts or len(hands) != len(r.cuts):
         s.items.append(Block(words))
         return s
-    k, why = governing_cut(r.cuts), _why(r.cuts)
+    k, why = _governing(r.cuts)
     if len(r.cuts) > 1:
         words += (f" Cut {k + 1} ({why}) is written out; the other cuts follow the same "
                   "steps, tabulated below.")

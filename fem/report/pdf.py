@@ -58,6 +58,7 @@ from fem.report.blocks import (
     Section,
     Table,
     figure_rows,
+    figure_runs,
     numeric_columns,
 )
 from fem.results import atomic_write
@@ -533,19 +534,11 @@ def _story(note: Note, lay: _Layout) -> list[Flowable]:
 def _items(s: Section, lay: _Layout, first: int) -> list[Flowable]:
     out: list[Flowable] = []
     number = first
-    items: list[Block | Table | Figure | None] = [*s.items, None]
-    run: list[Figure] = []  # consecutive figures of a pair section, set out in rows
-    for it in items:
-        if s.pair and isinstance(it, Figure):
-            run.append(it)
-            continue
-        if run:
-            out += _rows(run, number, lay)
-            number += len(run)
-            run = []
-        if it is None:
-            continue
-        if isinstance(it, Figure):
+    for it in figure_runs(s.items, s.pair):
+        if isinstance(it, list):   # consecutive figures of a pair section, set out in rows
+            out += _rows(it, number, lay)
+            number += len(it)
+        elif isinstance(it, Figure):
             number += 1
             out.append(_figure(it, number, lay.width, 0.38 * lay.height, 0.22 * lay.height))
         elif isinstance(it, Table):
